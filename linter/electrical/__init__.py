@@ -1,0 +1,1 @@
+"""The electrical model: logic families, rails, power states, parts and the design file."""

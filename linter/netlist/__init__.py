@@ -1,0 +1,6 @@
+"""The front end: structural Verilog to a flattened, bit-level design graph."""
+
+from linter.netlist.build import build_design
+from linter.netlist.graph import ArcMode, CellClass, DesignGraph, PinDirection, TopPort
+
+__all__ = ["ArcMode", "CellClass", "DesignGraph", "PinDirection", "TopPort", "build_design"]

@@ -1,0 +1,41 @@
+"""The front end's one entry point: Verilog files in, a flattened :class:`DesignGraph` out."""
+
+from __future__ import annotations
+
+import gc
+from collections.abc import Collection, Mapping, Sequence
+from contextlib import nullcontext
+from pathlib import Path
+
+from linter.netlist.flatten import Flattener
+from linter.netlist.graph import DesignGraph
+from linter.netlist.locations import LocationTable
+from linter.netlist.progress import Progress
+from linter.netlist.source import elaborate
+
+
+def build_design(
+    files: Sequence[str | Path],
+    top: str | None = None,
+    include_dirs: Sequence[str | Path] = (),
+    defines: Mapping[str, str] | Sequence[str] = (),
+    leaf_modules: Collection[str] = (),
+    progress: Progress | None = None,
+) -> DesignGraph:
+    """Parse, elaborate and flatten ``files``.
+
+    ``leaf_modules`` names modules kept as leaf cells even when they have a body (cells of a part
+    library). ``progress``, if given, is told about each phase; it never affects the result.
+    Raises :class:`~linter.errors.InputError` for bad input.
+    """
+    phase = progress.phase if progress is not None else (lambda name, total=None: nullcontext(None))
+    with phase("parsing and elaborating"):
+        source = elaborate(files, top, include_dirs, defines)
+    with phase("flattening") as advance:
+        flattener = Flattener(LocationTable(source.source_manager), frozenset(leaf_modules), advance)
+        graph = flattener.run(source.top)
+    graph.diagnostics = sorted(set(source.warnings) | set(graph.diagnostics))
+    # The compilation holds far more memory than the graph; let it go before analysis starts.
+    del flattener, source
+    gc.collect()
+    return graph

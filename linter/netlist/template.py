@@ -1,0 +1,476 @@
+"""Extraction of one elaborated module body into a reusable template of local bits and cells.
+
+slang shares one body between identical instances (``canonicalBody``), so each distinct body is
+walked once here and :mod:`linter.netlist.flatten` replicates it for every instance. All ids in a
+template are local: bits ``0 .. len(net_names)-1``, cells and pins in their own lists.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass, field
+
+from pyslang import ast
+
+from linter.errors import SourceLocation
+from linter.netlist.expressions import EK, BitResolver, SymbolBits, UnsupportedExpression
+from linter.netlist.graph import ArcMode, CellClass, PinDirection
+from linter.netlist.locations import LocationTable
+
+SK = ast.SymbolKind
+_SIMPLE_NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_$]*\Z")
+_BLACKBOX_MEMBERS = {SK.Port, SK.Net, SK.Variable, SK.Parameter, SK.TypeParameter, SK.TypeAlias, SK.Genvar}
+_PRIMITIVE_DIRECTION = {
+    ast.PrimitivePortDirection.In: PinDirection.IN,
+    ast.PrimitivePortDirection.Out: PinDirection.OUT,
+    ast.PrimitivePortDirection.OutReg: PinDirection.OUT,
+    ast.PrimitivePortDirection.InOut: PinDirection.INOUT,
+}
+_PORT_DIRECTION = {
+    ast.ArgumentDirection.In: PinDirection.IN,
+    ast.ArgumentDirection.Out: PinDirection.OUT,
+    ast.ArgumentDirection.InOut: PinDirection.INOUT,
+    ast.ArgumentDirection.Ref: PinDirection.INOUT,
+}
+_PULL_GATES = {"pullup", "pulldown"}
+_PATH_PART = re.compile(r"\\(\S+) ?|([^.\\]+)")
+_TERMINAL_NAMES = [f"t{i}" for i in range(16)]
+
+
+def verilog_name(name: str) -> str:
+    """A name as Verilog writes it: escaped (``\\a.b``, without the trailing space) if not simple."""
+    return name if _SIMPLE_NAME.match(name) else "\\" + name
+
+
+@dataclass
+class PortInfo:
+    name: str
+    direction: PinDirection
+    bits: list[int]
+    msb: int
+    lsb: int
+    location: SourceLocation
+
+
+@dataclass
+class ChildLink:
+    """A child instance with a real body: its bits merge with the parent's through its ports."""
+
+    name: str
+    body: ast.InstanceBodySymbol
+    links: list[tuple[str, list[int]]]  # (child port name, parent local bits, LSB first)
+
+
+@dataclass
+class Template:
+    """Everything one module body contributes, in local ids."""
+
+    module: str
+    net_names: list[str] = field(default_factory=list)
+    net_location: list[int] = field(default_factory=list)  # LocationTable ids
+    ports: list[PortInfo] = field(default_factory=list)
+    alias_a: list[int] = field(default_factory=list)
+    alias_b: list[int] = field(default_factory=list)
+    ties: list[tuple[int, int]] = field(default_factory=list)  # (bit, constant)
+    cell_names: list[str] = field(default_factory=list)
+    cell_kinds: list[str] = field(default_factory=list)
+    cell_class: list[int] = field(default_factory=list)
+    cell_arc_mode: list[int] = field(default_factory=list)
+    cell_location: list[int] = field(default_factory=list)
+    cell_pin_start: list[int] = field(default_factory=lambda: [0])
+    pin_net: list[int] = field(default_factory=list)
+    pin_direction: list[int] = field(default_factory=list)
+    pin_names: list[str] = field(default_factory=list)
+    arc_from_pin: list[int] = field(default_factory=list)
+    arc_to_pin: list[int] = field(default_factory=list)
+    children: list[ChildLink] = field(default_factory=list)
+    unknown_cells: list[int] = field(default_factory=list)
+    warnings: list[str] = field(default_factory=list)
+
+    def port_bits(self, name: str) -> list[int] | None:
+        for port in self.ports:
+            if port.name == name:
+                return port.bits
+        return None
+
+
+def is_blackbox_body(body: ast.InstanceBodySymbol) -> bool:
+    """A body with ports and declarations but no logic: its pins are all we can know."""
+    return all(member.kind in _BLACKBOX_MEMBERS for member in body)
+
+
+class TemplateBuilder:
+    """Walks one body. ``leaf_modules`` names modules to keep as leaf cells even if they have a body."""
+
+    def __init__(self, body: ast.InstanceBodySymbol, locations: LocationTable, leaf_modules: frozenset[str]) -> None:
+        self.body = body
+        self.locations = locations
+        self.leaf_modules = leaf_modules
+        self.template = Template(module=body.definition.name)
+        # keyed by id(): hashing pybind symbols is slow, and wrappers are identity-stable while
+        # alive, which ``_alive`` guarantees
+        self.symbols: dict[int, SymbolBits] = {}
+        self._alive: list[ast.Symbol] = []
+        self.resolver = BitResolver(self._symbol_bits)
+        self._body_path_length = len(body.hierarchicalPath) + 1
+        self._primitive_specs: dict[ast.Symbol, tuple[str, int, int, list[int] | None]] = {}
+        self._blackbox_cache: dict[ast.InstanceBodySymbol, bool] = {}
+
+    # ---- bits of symbols -----------------------------------------------------------------------
+    def _allocate(self, symbol: ast.Symbol, name: str) -> SymbolBits:
+        t = self.template
+        symbol_type = symbol.type
+        width = symbol_type.bitWidth
+        base = len(t.net_names)
+        declared = symbol_type.fixedRange
+        descending = declared.left >= declared.right
+        info = SymbolBits(base, width, declared.lower, declared.upper, descending)
+        if width == 1 and not symbol_type.isPackedArray:
+            t.net_names.append(name)
+        elif declared.width == width or not symbol_type.isPackedArray:
+            first, step = (declared.lower, 1) if descending else (declared.upper, -1)
+            t.net_names.extend([f"{name}[{first + step * offset}]" for offset in range(width)])
+        else:  # packed multi-dimensional: name the outer index, then the offset inside it
+            per_element = width // declared.width
+            for offset in range(width):
+                outer, inner = divmod(offset, per_element)
+                index = declared.lower + outer if descending else declared.upper - outer
+                t.net_names.append(f"{name}[{index}][{inner}]")
+        t.net_location.extend([self.locations.intern(symbol.location)] * width)
+        self.symbols[id(symbol)] = info
+        self._alive.append(symbol)
+        return info
+
+    def _symbol_bits(self, symbol: ast.Symbol) -> SymbolBits | None:
+        info = self.symbols.get(id(symbol))
+        if info is not None:
+            return info
+        if symbol is None or symbol.kind not in (SK.Net, SK.Variable):
+            return None
+        path = symbol.hierarchicalPath
+        body_path = self.body.hierarchicalPath
+        if not path.startswith(body_path + "."):
+            return None
+        return self._allocate(symbol, self._relative_name(path[self._body_path_length :]))
+
+    @staticmethod
+    def _relative_name(path: str) -> str:
+        """A hierarchical path in our spelling: escaped parts lose slang's trailing space."""
+        return ".".join("\\" + m.group(1) if m.group(1) else m.group(2) for m in _PATH_PART.finditer(path))
+
+    def _fresh_bits(self, name: str, width: int, location: int) -> list[int]:
+        t = self.template
+        base = len(t.net_names)
+        t.net_names.extend([name] if width == 1 else [f"{name}[{i}]" for i in range(width)])
+        t.net_location.extend([location] * width)
+        return list(range(base, base + width))
+
+    # ---- the walk ------------------------------------------------------------------------------
+    def build(self) -> Template:
+        self._ports()
+        self._scope(self.body, "")
+        return self.template
+
+    def _ports(self) -> None:
+        for port in self.body.portList:
+            where = self.locations.location(port.location)
+            if port.kind != SK.Port or port.internalSymbol is None:
+                self.template.warnings.append(f"{where}: warning: port '{port.name}' of this kind is not supported; left unconnected")
+                continue
+            internal = port.internalSymbol
+            info = self.symbols.get(id(internal)) or self._allocate(internal, verilog_name(internal.name))
+            msb, lsb = (info.upper, info.lower) if info.descending else (info.lower, info.upper)
+            bits = list(range(info.base, info.base + info.width))
+            self.template.ports.append(PortInfo(port.name, _PORT_DIRECTION[port.direction], bits, msb, lsb, where))
+
+    def _scope(self, scope: ast.Symbol, prefix: str) -> None:
+        members = list(scope)
+        for member in members:
+            if member.kind in (SK.Net, SK.Variable) and id(member) not in self.symbols:
+                self._allocate(member, prefix + verilog_name(member.name))
+        for member in members:
+            kind = member.kind
+            try:
+                if kind == SK.PrimitiveInstance:
+                    self._primitive(member, prefix + (verilog_name(member.name) if member.name else self._anonymous_name(member)))
+                elif kind == SK.ContinuousAssign:
+                    assignment = member.assignment
+                    self._assign(assignment.left, assignment.right, member, prefix)
+                elif kind == SK.Net and member.initializer is not None:
+                    info = self.symbols[id(member)]
+                    self._assign_bits(list(range(info.base, info.base + info.width)), member.initializer, member, prefix)
+                elif kind == SK.Instance:
+                    self._instance(member, prefix + verilog_name(member.name))
+                elif kind == SK.InstanceArray:
+                    self._array(member, prefix + verilog_name(member.name))
+                elif kind == SK.UninstantiatedDef:
+                    self._undefined(member, prefix + verilog_name(member.name))
+                elif kind == SK.ProceduralBlock:
+                    self._process(member, prefix)
+                elif kind == SK.GenerateBlock:
+                    if not member.isUninstantiated:
+                        self._scope(member, prefix + verilog_name(member.name) + ".")
+                elif kind == SK.GenerateBlockArray:
+                    for entry in member.entries:
+                        if not entry.isUninstantiated:
+                            self._scope(entry, f"{prefix}{verilog_name(member.name)}[{entry.arrayIndex}].")
+            except UnsupportedExpression as problem:
+                where = self.locations.location(problem.expression.sourceRange.start)
+                self.template.warnings.append(f"{where}: warning: {problem.reason}; connection ignored")
+
+    # ---- cells ----------------------------------------------------------------------------------
+    def _begin_cell(self, name: str, kind: str, cell_class: CellClass, arc_mode: ArcMode, location: object) -> int:
+        t = self.template
+        t.cell_names.append(name)
+        t.cell_kinds.append(kind)
+        t.cell_class.append(cell_class)
+        t.cell_arc_mode.append(arc_mode)
+        t.cell_location.append(self.locations.intern(location))
+        return len(t.cell_names) - 1
+
+    def _end_cell(self) -> None:
+        self.template.cell_pin_start.append(len(self.template.pin_net))
+
+    def _pin(self, net: int, direction: int, name: str) -> int:
+        t = self.template
+        t.pin_net.append(net)
+        t.pin_direction.append(direction)
+        t.pin_names.append(name)
+        return len(t.pin_net) - 1
+
+    def _anonymous_name(self, gate: ast.Symbol) -> str:
+        where = self.locations.location(gate.location)
+        return f"{gate.primitiveType.name}@{where.line}:{where.column}"
+
+    def _primitive_spec(self, primitive: ast.Symbol) -> tuple[str, int, int, list[int] | None]:
+        spec = self._primitive_specs.get(primitive)
+        if spec is None:
+            kind = primitive.primitiveKind
+            name = primitive.name
+            PK = type(kind)
+            if kind == PK.UserDefined:
+                arc = ArcMode.NONE if primitive.isSequential else ArcMode.FULL
+                spec = (name, CellClass.GATE, arc, [PinDirection.OUT] + [PinDirection.IN] * (len(primitive.ports) - 1))
+            elif kind == PK.Fixed:
+                arc = ArcMode.NONE if name in _PULL_GATES else ArcMode.FULL
+                spec = (name, CellClass.GATE, arc, [_PRIMITIVE_DIRECTION[p.direction] for p in primitive.ports])
+            else:
+                spec = (name, CellClass.GATE, ArcMode.FULL, None)
+            self._primitive_specs[primitive] = spec
+        return spec
+
+    def _primitive(self, gate: ast.Symbol, name: str) -> None:
+        kind, cell_class, arc_mode, directions = self._primitive_spec(gate.primitiveType)
+        connections = gate.portConnections
+        count = len(connections)
+        if directions is None:
+            if gate.primitiveType.primitiveKind == type(gate.primitiveType.primitiveKind).NInput:
+                directions = [PinDirection.OUT] + [PinDirection.IN] * (count - 1)
+            else:  # buf / not: every terminal but the last is an output
+                directions = [PinDirection.OUT] * (count - 1) + [PinDirection.IN]
+        symbols_get = self.symbols.get
+        bit_lists = []
+        for position, expression in enumerate(connections):
+            # fast path: a one-bit net, however it is written (plain name, output wrapper, b[0])
+            info = symbols_get(id(expression.getSymbolReference()))
+            if info is not None and info.width == 1:
+                bit_lists.append((info.base,))
+            else:
+                bit_lists.append(self._connection_bits(expression, f"{name}.t{position}", 1, gate.location))
+        t = self.template
+        self._begin_cell(name, kind, cell_class, arc_mode, gate.location)
+        pin_net, pin_direction, pin_names = t.pin_net, t.pin_direction, t.pin_names
+        for position, bits in enumerate(bit_lists):
+            direction = directions[position] if position < len(directions) else PinDirection.IN
+            if len(bits) == 1:
+                pin_net.append(bits[0])
+                pin_direction.append(direction)
+                pin_names.append(_TERMINAL_NAMES[position] if position < 16 else f"t{position}")
+            else:
+                for offset, bit in enumerate(bits):
+                    pin_net.append(bit)
+                    pin_direction.append(direction)
+                    pin_names.append(f"t{position}[{offset}]")
+        t.cell_pin_start.append(len(pin_net))
+
+    def _assign(self, left: ast.Expression, right: ast.Expression, symbol: ast.Symbol, prefix: str) -> None:
+        targets = self.resolver.bits(left)
+        if targets is None:
+            raise UnsupportedExpression(left, "the left side of an assign must name nets")
+        self._assign_bits(targets, right, symbol, prefix)
+
+    def _assign_bits(self, targets: list[int], right: ast.Expression, symbol: ast.Symbol, prefix: str) -> None:
+        t = self.template
+        sources = self.resolver.bits(right)
+        if sources is not None:  # a pure alias: the two sides are one net
+            for target, source in zip(targets, sources):
+                if source >= 0:
+                    t.alias_a.append(target)
+                    t.alias_b.append(source)
+                else:
+                    t.ties.append((target, source))
+            return
+        dependencies = self.resolver.dependencies(right)
+        where = self.locations.location(symbol.location)
+        self._logic_cell(f"{prefix}assign@{where.line}:{where.column}", "assign", CellClass.ASSIGN,
+                         targets, dependencies[: len(targets)], symbol.location)
+
+    def _logic_cell(self, name: str, kind: str, cell_class: CellClass, targets: list[int],
+                    dependencies: list[frozenset[int]], location: object) -> None:
+        """A cell computing ``targets`` (LSB first), target i reading ``dependencies[i]``."""
+        t = self.template
+        read_order: dict[int, None] = {}
+        for reads in dependencies:
+            for bit in sorted(reads):
+                read_order.setdefault(bit, None)
+        full = all(len(reads) == len(read_order) for reads in dependencies)
+        self._begin_cell(name, kind, cell_class, ArcMode.FULL if full else ArcMode.EXPLICIT, location)
+        input_pin = {bit: self._pin(bit, PinDirection.IN, t.net_names[bit]) for bit in read_order}
+        for offset, target in enumerate(targets):
+            output = self._pin(target, PinDirection.OUT, t.net_names[target])
+            if not full and offset < len(dependencies):
+                for bit in sorted(dependencies[offset]):
+                    t.arc_from_pin.append(input_pin[bit])
+                    t.arc_to_pin.append(output)
+        self._end_cell()
+
+    # ---- instances ------------------------------------------------------------------------------
+    def _connection_bits(self, expression: ast.Expression | None, name: str, width: int, where: object) -> list[int]:
+        """The parent bits a port connection names; a computed input gets a cell of its own."""
+        if expression is None or expression.kind == EK.EmptyArgument:
+            return []
+        target = expression.left if expression.kind == EK.Assignment else expression
+        if target.kind == EK.EmptyArgument:
+            return []
+        bits = self.resolver.bits(target)
+        if bits is not None:
+            return bits
+        fresh = self._fresh_bits(name, target.type.bitWidth, self.locations.intern(where))
+        self._logic_cell(f"{name}$expr", "assign", CellClass.ASSIGN, fresh,
+                         self.resolver.dependencies(target), target.sourceRange.start)
+        return fresh
+
+    def _is_blackbox(self, instance: ast.Symbol) -> bool:
+        if instance.definition.name in self.leaf_modules:
+            return True
+        body = instance.canonicalBody or instance.body
+        known = self._blackbox_cache.get(body)
+        if known is None:
+            known = self._blackbox_cache[body] = is_blackbox_body(body)
+        return known
+
+    def _instance(self, instance: ast.Symbol, name: str) -> None:
+        if not instance.isModule:
+            where = self.locations.location(instance.location)
+            self.template.warnings.append(f"{where}: warning: interface instance '{name}' is not supported; skipped")
+            return
+        if self._is_blackbox(instance):
+            self._blackbox(instance, name)
+            return
+        links = []
+        for connection in instance.portConnections:
+            port = connection.port
+            if port.kind != SK.Port:
+                where = self.locations.location(instance.location)
+                self.template.warnings.append(f"{where}: warning: port '{port.name}' of '{name}' is not supported; left unconnected")
+                continue
+            width = port.type.bitWidth
+            bits = self._connection_bits(connection.expression, f"{name}.{verilog_name(port.name)}", width, instance.location)
+            if bits:
+                links.append((port.name, bits))
+        self.template.children.append(ChildLink(name, instance.canonicalBody or instance.body, links))
+
+    def _blackbox(self, instance: ast.Symbol, name: str) -> None:
+        pins: list[tuple[list[int], int, str]] = []
+        for connection in instance.portConnections:
+            port = connection.port
+            direction = _PORT_DIRECTION.get(port.direction, PinDirection.INOUT)
+            width = port.type.bitWidth
+            pin_name = verilog_name(port.name)
+            bits = self._connection_bits(connection.expression, f"{name}.{pin_name}", width, instance.location)
+            if not bits:  # unconnected: a net of its own, so a floating input is visible
+                bits = self._fresh_bits(f"{name}.{pin_name}", width, self.locations.intern(instance.location))
+            pins.append((bits[:width], direction, pin_name))
+        self._begin_cell(name, instance.definition.name, CellClass.BLACKBOX, ArcMode.FULL, instance.location)
+        for bits, direction, pin_name in pins:
+            for offset, bit in enumerate(bits):
+                self._pin(bit, direction, pin_name if len(bits) == 1 else f"{pin_name}[{offset}]")
+        self._end_cell()
+
+    def _array(self, array: ast.Symbol, name: str) -> None:
+        for element in array.elements:
+            index = "][".join(str(i) for i in element.arrayPath)
+            element_name = f"{name}[{index}]"
+            if element.kind == SK.PrimitiveInstance:
+                self._primitive(element, element_name)
+            elif element.kind == SK.Instance:
+                self._instance(element, element_name)
+            elif element.kind == SK.InstanceArray:
+                self._array(element, element_name)
+
+    def _undefined(self, instance: ast.Symbol, name: str) -> None:
+        """An instance of a module nobody defined: pins without directions, reported as unknown."""
+        names = list(instance.portNames)
+        pins = []
+        for position, connection in enumerate(instance.portConnections):
+            pin_name = verilog_name(names[position]) if position < len(names) and names[position] else f"#{position}"
+            expression = getattr(connection, "expr", None)
+            bits = self._connection_bits(expression, f"{name}.{pin_name}", 1, instance.location) if expression else []
+            pins.append((bits, pin_name))
+        cell = self._begin_cell(name, instance.definitionName, CellClass.BLACKBOX, ArcMode.FULL, instance.location)
+        for bits, pin_name in pins:
+            for offset, bit in enumerate(bits):
+                self._pin(bit, PinDirection.UNKNOWN, pin_name if len(bits) == 1 else f"{pin_name}[{offset}]")
+        self._end_cell()
+        self.template.unknown_cells.append(cell)
+
+    # ---- processes ------------------------------------------------------------------------------
+    def _process(self, block: ast.Symbol, prefix: str) -> None:
+        kinds = ast.ProceduralBlockKind
+        if block.procedureKind in (kinds.Initial, kinds.Final):
+            return  # simulation only: no hardware
+        sequential = block.procedureKind == kinds.AlwaysFF or _is_edge_triggered(block.body)
+        written: dict[int, None] = {}
+        read: set[int] = set()
+        resolver = self.resolver
+
+        def visit(node: object) -> object:
+            if isinstance(node, ast.Expression):
+                if node.kind == EK.Assignment:
+                    for bit in resolver.bits(node.left) or ():
+                        if bit >= 0:
+                            written.setdefault(bit, None)
+                    read.update(resolver.reads(node.right))
+                    return ast.VisitAction.Skip
+                if node.kind in (EK.NamedValue, EK.ElementSelect, EK.RangeSelect):
+                    read.update(resolver.reads(node))
+                    return ast.VisitAction.Skip
+            return ast.VisitAction.Advance
+
+        block.body.visit(visit)
+        where = self.locations.location(block.location)
+        if sequential:
+            cell_class, kind, arc_mode = CellClass.SEQUENTIAL, "sequential", ArcMode.NONE
+        else:
+            cell_class, kind, arc_mode = CellClass.BEHAVIOURAL, "behavioural", ArcMode.FULL
+            self.template.warnings.append(
+                f"{where}: warning: level-sensitive process treated as a combinational black box")
+        self._begin_cell(f"{prefix}process@{where.line}:{where.column}", kind, cell_class, arc_mode, block.location)
+        names = self.template.net_names
+        for bit in sorted(read):
+            self._pin(bit, PinDirection.IN, names[bit])
+        for bit in written:
+            self._pin(bit, PinDirection.OUT, names[bit])
+        self._end_cell()
+
+
+def _is_edge_triggered(statement: ast.Statement) -> bool:
+    """True for ``always @(posedge ...)`` and event lists holding an edge."""
+    if statement.kind != ast.StatementKind.Timed:
+        return False
+    timing = statement.timing
+    events = list(timing.events) if timing.kind == ast.TimingControlKind.EventList else [timing]
+    return any(
+        event.kind == ast.TimingControlKind.SignalEvent and event.edge != ast.EdgeKind.None_
+        for event in events
+    )

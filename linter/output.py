@@ -1,0 +1,31 @@
+"""Writing results: atomically to a file, or to a stream passed in."""
+
+from __future__ import annotations
+
+import os
+import tempfile
+from pathlib import Path
+
+from linter.errors import InputError
+
+
+def write_atomic(path: str | os.PathLike[str], text: str | bytes) -> None:
+    """Write ``text`` to ``path`` so that readers see the old file or the whole new one.
+
+    The data goes to a temporary file in the same folder, which is renamed over the target
+    only once it is complete; on any failure the temporary file is removed.
+    """
+    target = Path(path)
+    folder = target.parent if str(target.parent) else Path(".")
+    if not folder.is_dir():
+        raise InputError(f"cannot write '{target}': folder '{folder}' does not exist")
+    data = text.encode("utf-8") if isinstance(text, str) else text
+    fd, tmp_name = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
+    try:
+        with os.fdopen(fd, "wb") as handle:
+            handle.write(data)
+        os.replace(tmp_name, target)
+    except BaseException:
+        if os.path.exists(tmp_name):
+            os.unlink(tmp_name)
+        raise

@@ -1,0 +1,1 @@
+"""Reporters: render findings and summaries to text, JSON and other formats. They never compute."""

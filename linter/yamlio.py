@@ -1,0 +1,127 @@
+"""Safe YAML loading that remembers where every mapping key and list item came from.
+
+Only YAML's plain data types are constructed (``yaml.SafeLoader``): a tag such as
+``!!python/object`` is refused with a one-line error naming the file and line. Mappings load as
+:class:`LocatedDict` and sequences as :class:`LocatedList`, so a validator can say
+``design.yaml:14:5: rail 'VCC' has no nominal voltage`` instead of a bare message.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Any
+
+import yaml
+
+from linter.errors import InputError, SourceLocation
+
+
+class LocatedDict(dict):
+    """A mapping from YAML with the location of itself, of each key and of each value."""
+
+    location: SourceLocation
+    key_locations: dict[Any, SourceLocation]
+    value_locations: dict[Any, SourceLocation]
+
+    def where(self, key: Any | None = None) -> SourceLocation:
+        """Location of ``key``'s value if present, else of the key, else of the mapping."""
+        if key is not None:
+            if key in self.value_locations:
+                return self.value_locations[key]
+            if key in self.key_locations:
+                return self.key_locations[key]
+        return self.location
+
+
+class LocatedList(list):
+    """A sequence from YAML with the location of itself and of each item."""
+
+    location: SourceLocation
+    item_locations: list[SourceLocation]
+
+    def where(self, index: int | None = None) -> SourceLocation:
+        if index is not None and 0 <= index < len(self.item_locations):
+            return self.item_locations[index]
+        return self.location
+
+
+def _mark(file: str, node: yaml.Node) -> SourceLocation:
+    return SourceLocation(file, node.start_mark.line + 1, node.start_mark.column + 1)
+
+
+class _Loader(yaml.SafeLoader):
+    """A safe loader building located containers; duplicate keys are an error."""
+
+    source_name = "<yaml>"
+
+    def construct_located_mapping(self, node: yaml.MappingNode) -> LocatedDict:
+        result = LocatedDict()
+        result.location = _mark(self.source_name, node)
+        result.key_locations = {}
+        result.value_locations = {}
+        self.flatten_mapping(node)
+        for key_node, value_node in node.value:
+            key = self.construct_object(key_node, deep=True)
+            try:
+                hash(key)
+            except TypeError:
+                raise InputError("a mapping key must be a plain value", _mark(self.source_name, key_node))
+            if key in result:
+                raise InputError(f"duplicate key '{key}'", _mark(self.source_name, key_node))
+            result[key] = self.construct_object(value_node, deep=True)
+            result.key_locations[key] = _mark(self.source_name, key_node)
+            result.value_locations[key] = _mark(self.source_name, value_node)
+        return result
+
+    def construct_located_sequence(self, node: yaml.SequenceNode) -> LocatedList:
+        result = LocatedList(self.construct_object(child, deep=True) for child in node.value)
+        result.location = _mark(self.source_name, node)
+        result.item_locations = [_mark(self.source_name, child) for child in node.value]
+        return result
+
+
+_Loader.add_constructor(yaml.resolver.BaseResolver.DEFAULT_MAPPING_TAG, _Loader.construct_located_mapping)
+_Loader.add_constructor(yaml.resolver.BaseResolver.DEFAULT_SEQUENCE_TAG, _Loader.construct_located_sequence)
+
+
+def load_yaml_text(text: str, source_name: str) -> Any:
+    """Parse YAML text; errors become :class:`InputError` with ``source_name:line:column``."""
+    loader = _Loader(text)
+    loader.source_name = source_name
+    try:
+        return loader.get_single_data()
+    except InputError:
+        raise
+    except yaml.constructor.ConstructorError as error:
+        mark = error.problem_mark
+        where = SourceLocation(source_name, mark.line + 1, mark.column + 1) if mark else SourceLocation(source_name)
+        tag = f" ({error.problem})" if error.problem else ""
+        raise InputError(f"YAML construct not allowed here{tag}", where) from None
+    except yaml.MarkedYAMLError as error:
+        mark = error.problem_mark or error.context_mark
+        where = SourceLocation(source_name, mark.line + 1, mark.column + 1) if mark else SourceLocation(source_name)
+        raise InputError(f"malformed YAML: {error.problem or error.context}", where) from None
+    except yaml.YAMLError as error:
+        raise InputError(f"malformed YAML: {error}", SourceLocation(source_name)) from None
+    finally:
+        loader.dispose()
+
+
+def load_yaml_file(path: str | Path) -> Any:
+    """Read and parse a YAML file; a missing, unreadable or binary file is an :class:`InputError`."""
+    name = str(path)
+    try:
+        raw = Path(path).read_bytes()
+    except FileNotFoundError:
+        raise InputError(f"no such file '{name}'") from None
+    except IsADirectoryError:
+        raise InputError(f"'{name}' is a folder, not a YAML file") from None
+    except OSError as error:
+        raise InputError(f"cannot read '{name}': {error.strerror}") from None
+    if b"\x00" in raw:
+        raise InputError("binary file, expected YAML text", SourceLocation(name))
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as error:
+        raise InputError(f"not UTF-8 text (byte {error.start})", SourceLocation(name)) from None
+    return load_yaml_text(text, name)
