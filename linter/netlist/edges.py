@@ -13,7 +13,13 @@ if TYPE_CHECKING:
 
 
 def combinational_edges(graph: DesignGraph) -> tuple[np.ndarray, np.ndarray]:
-    """(source net, destination net) for every combinational input-to-output arc.
+    """(source net, destination net) for every combinational input-to-output arc."""
+    src, dst, _ = combinational_arcs(graph)
+    return src, dst
+
+
+def combinational_arcs(graph: DesignGraph) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """(source net, destination net, cell) for every combinational input-to-output arc.
 
     Cells with ``ArcMode.FULL`` connect each input (or inout) pin to each output (or inout) pin;
     ``EXPLICIT`` cells contribute their listed arcs; ``NONE`` cells (sequential, ties, pulls)
@@ -41,10 +47,12 @@ def combinational_edges(graph: DesignGraph) -> tuple[np.ndarray, np.ndarray]:
     keep = src_pin != dst_pin
     src = nets[src_pin[keep]]
     dst = nets[dst_pin[keep]]
+    cell = pin_cell[src_pin[keep]]
     if graph.arc_from_pin.size:
         explicit_src = nets[graph.arc_from_pin]
         explicit_dst = nets[graph.arc_to_pin]
         ok = (explicit_src >= 0) & (explicit_dst >= 0)
         src = np.concatenate((src, explicit_src[ok]))
         dst = np.concatenate((dst, explicit_dst[ok]))
-    return src.astype(np.int32), dst.astype(np.int32)
+        cell = np.concatenate((cell, pin_cell[graph.arc_from_pin[ok]]))
+    return src.astype(np.int32), dst.astype(np.int32), cell.astype(np.int32)

@@ -149,9 +149,13 @@ class Flattener:
         is_rep = np.zeros(len(names), bool)
         is_rep[rep_raw] = True
         for raw in np.flatnonzero(~is_rep).tolist():
-            aliases.setdefault(int(net_of_raw[raw]), []).append(names[raw])
-        for alias_list in aliases.values():
-            alias_list.sort()
+            net = int(net_of_raw[raw])
+            # A computed port connection has a parent-side copy spelt like the child's port
+            # (``top.u.d``); once merged, that spelling is no second name for the net.
+            if names[raw] != canonical[net]:
+                aliases.setdefault(net, []).append(names[raw])
+        for net, alias_list in aliases.items():
+            aliases[net] = sorted(set(alias_list))
         return canonical, aliases
 
     def _assemble(self, top_name: str, net_of_raw: np.ndarray, rep_raw: np.ndarray) -> DesignGraph:
@@ -249,5 +253,6 @@ class Flattener:
             unknown_cells=[],
             diagnostics=warnings,
         )
+        graph.instance_modules = {inst.path: inst.template.module for inst in self.instances}
         graph.unknown_cells = [(cell_names[c], cell_kinds[c], graph.cell_location(c)) for c in unknown]
         return graph

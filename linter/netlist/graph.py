@@ -101,7 +101,7 @@ class DesignGraph:
     cell_pin_start: np.ndarray  # length cell_count + 1
     pin_net: np.ndarray  # net id, or a negative constant
     pin_direction: np.ndarray  # PinDirection
-    pin_names: list[str]  # "A", "B[2]", "Y"; gate primitive pins are named by position "o0","i0".."
+    pin_names: list[str]  # "A", "B[2]", "Y"; gate-primitive terminals by position: "t0", "t1", ...
 
     # explicit combinational arcs, for cells with ArcMode.EXPLICIT: pin index pairs
     arc_from_pin: np.ndarray
@@ -110,6 +110,7 @@ class DesignGraph:
     ports: list[TopPort]
     unknown_cells: list[tuple[str, str, SourceLocation]]  # (instance path, module name, where)
     diagnostics: list[str] = field(default_factory=list)  # one-line warnings from the front end
+    instance_modules: dict[str, str] = field(default_factory=dict)  # instance path -> module name
 
     # ---- sizes -----------------------------------------------------------------------------
     @property

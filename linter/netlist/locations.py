@@ -50,7 +50,10 @@ class LocationTable:
         if loc is None or loc.buffer.id == 0:
             return SourceLocation("<unknown>")
         sm = self._source_manager
-        return SourceLocation(sm.getFileName(loc), sm.getLineNumber(loc), sm.getColumnNumber(loc))
+        name = sm.getFileName(loc)
+        if not name:  # slang's "no location" sentinel: a buffer id, but no file behind it
+            return SourceLocation("<unknown>")
+        return SourceLocation(name, sm.getLineNumber(loc), sm.getColumnNumber(loc))
 
     def resolve(self) -> None:
         """Compute ``file``, ``line`` and ``column`` arrays indexed by location id."""

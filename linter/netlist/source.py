@@ -35,9 +35,10 @@ def location_of(source_manager: pyslang.SourceManager, loc: pyslang.SourceLocati
     """Our location for a slang location; an empty location yields ``<unknown>``."""
     if loc is None or loc.buffer.id == 0:
         return SourceLocation("<unknown>")
-    return SourceLocation(
-        source_manager.getFileName(loc), source_manager.getLineNumber(loc), source_manager.getColumnNumber(loc)
-    )
+    name = source_manager.getFileName(loc)
+    if not name:  # slang's "no location" (an unknown --top) has a buffer id but names no file
+        return SourceLocation("<unknown>")
+    return SourceLocation(name, source_manager.getLineNumber(loc), source_manager.getColumnNumber(loc))
 
 
 def _check_readable(path: Path) -> None:
@@ -54,13 +55,17 @@ def _check_readable(path: Path) -> None:
     if not raw.strip():
         raise InputError("empty file: no Verilog to read", SourceLocation(name, 1, 1))
     if b"\x00" in raw:
-        line = raw.count(b"\n", 0, raw.index(b"\x00")) + 1
-        raise InputError("binary file: expected Verilog text", SourceLocation(name, line, 1))
+        raise InputError("binary file: expected Verilog text", _byte_location(name, raw, raw.index(b"\x00")))
     try:
         raw.decode("utf-8")
     except UnicodeDecodeError as error:
-        line = raw.count(b"\n", 0, error.start) + 1
-        raise InputError(f"not UTF-8 text (byte {error.start})", SourceLocation(name, line, 1)) from None
+        raise InputError(f"not UTF-8 text (byte {error.start})", _byte_location(name, raw, error.start)) from None
+
+
+def _byte_location(name: str, raw: bytes, offset: int) -> SourceLocation:
+    """Line and column (counted in bytes, as slang does) of the byte at ``offset``."""
+    line_start = raw.rfind(b"\n", 0, offset) + 1
+    return SourceLocation(name, raw.count(b"\n", 0, offset) + 1, offset - line_start + 1)
 
 
 def _defines(defines: Mapping[str, str] | Sequence[str]) -> list[str]:

@@ -10,11 +10,11 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass, field
 
-from pyslang import ast
+from pyslang import ast, syntax
 
 from linter.errors import SourceLocation
 from linter.netlist.expressions import EK, BitResolver, SymbolBits, UnsupportedExpression
-from linter.netlist.graph import ArcMode, CellClass, PinDirection
+from linter.netlist.graph import CONST0, CONST1, ArcMode, CellClass, PinDirection
 from linter.netlist.locations import LocationTable
 
 SK = ast.SymbolKind
@@ -33,6 +33,7 @@ _PORT_DIRECTION = {
     ast.ArgumentDirection.Ref: PinDirection.INOUT,
 }
 _PULL_GATES = {"pullup", "pulldown"}
+_SUPPLY_CONSTANT = {ast.NetType.NetKind.Supply0: CONST0, ast.NetType.NetKind.Supply1: CONST1}
 _PATH_PART = re.compile(r"\\(\S+) ?|([^.\\]+)")
 _TERMINAL_NAMES = [f"t{i}" for i in range(16)]
 
@@ -125,18 +126,14 @@ class TemplateBuilder:
         declared = symbol_type.fixedRange
         descending = declared.left >= declared.right
         info = SymbolBits(base, width, declared.lower, declared.upper, descending)
-        if width == 1 and not symbol_type.isPackedArray:
-            t.net_names.append(name)
-        elif declared.width == width or not symbol_type.isPackedArray:
-            first, step = (declared.lower, 1) if descending else (declared.upper, -1)
-            t.net_names.extend([f"{name}[{first + step * offset}]" for offset in range(width)])
-        else:  # packed multi-dimensional: name the outer index, then the offset inside it
-            per_element = width // declared.width
-            for offset in range(width):
-                outer, inner = divmod(offset, per_element)
-                index = declared.lower + outer if descending else declared.upper - outer
-                t.net_names.append(f"{name}[{index}][{inner}]")
+        t.net_names.extend(_bit_names(name, symbol_type))
         t.net_location.extend([self.locations.intern(symbol.location)] * width)
+        if symbol.kind == SK.Net:
+            # supply0 / supply1 nets are driven by the rail itself; without a tie every gate
+            # input on one would look floating
+            constant = _SUPPLY_CONSTANT.get(symbol.netType.netKind)
+            if constant is not None:
+                t.ties.extend((base + offset, constant) for offset in range(width))
         self.symbols[id(symbol)] = info
         self._alive.append(symbol)
         return info
@@ -158,10 +155,15 @@ class TemplateBuilder:
         """A hierarchical path in our spelling: escaped parts lose slang's trailing space."""
         return ".".join("\\" + m.group(1) if m.group(1) else m.group(2) for m in _PATH_PART.finditer(path))
 
-    def _fresh_bits(self, name: str, width: int, location: int) -> list[int]:
+    def _fresh_bits(self, name: str, width: int, location: int, port_type: object = None) -> list[int]:
         t = self.template
         base = len(t.net_names)
-        t.net_names.extend([name] if width == 1 else [f"{name}[{i}]" for i in range(width)])
+        if port_type is not None and port_type.bitWidth == width:
+            # These bits merge with the child's port net of the same name; numbering them by its
+            # declared range keeps ``u.d[3]`` one bit, not the LSB here and the MSB in the child.
+            t.net_names.extend(_bit_names(name, port_type))
+        else:
+            t.net_names.extend([name] if width == 1 else [f"{name}[{i}]" for i in range(width)])
         t.net_location.extend([location] * width)
         return list(range(base, base + width))
 
@@ -335,8 +337,12 @@ class TemplateBuilder:
         self._end_cell()
 
     # ---- instances ------------------------------------------------------------------------------
-    def _connection_bits(self, expression: ast.Expression | None, name: str, width: int, where: object) -> list[int]:
-        """The parent bits a port connection names; a computed input gets a cell of its own."""
+    def _connection_bits(self, expression: ast.Expression | None, name: str, width: int, where: object,
+                         port_type: object = None) -> list[int]:
+        """The parent bits a port connection names; a computed input gets a cell of its own.
+
+        ``port_type``, the type of a child port with a body, names the computed bits like it.
+        """
         if expression is None or expression.kind == EK.EmptyArgument:
             return []
         target = expression.left if expression.kind == EK.Assignment else expression
@@ -345,7 +351,7 @@ class TemplateBuilder:
         bits = self.resolver.bits(target)
         if bits is not None:
             return bits
-        fresh = self._fresh_bits(name, target.type.bitWidth, self.locations.intern(where))
+        fresh = self._fresh_bits(name, target.type.bitWidth, self.locations.intern(where), port_type)
         self._logic_cell(f"{name}$expr", "assign", CellClass.ASSIGN, fresh,
                          self.resolver.dependencies(target), target.sourceRange.start)
         return fresh
@@ -375,7 +381,8 @@ class TemplateBuilder:
                 self.template.warnings.append(f"{where}: warning: port '{port.name}' of '{name}' is not supported; left unconnected")
                 continue
             width = port.type.bitWidth
-            bits = self._connection_bits(connection.expression, f"{name}.{verilog_name(port.name)}", width, instance.location)
+            bits = self._connection_bits(connection.expression, f"{name}.{verilog_name(port.name)}", width,
+                                         instance.location, port.type)
             if bits:
                 links.append((port.name, bits))
         self.template.children.append(ChildLink(name, instance.canonicalBody or instance.body, links))
@@ -411,9 +418,11 @@ class TemplateBuilder:
     def _undefined(self, instance: ast.Symbol, name: str) -> None:
         """An instance of a module nobody defined: pins without directions, reported as unknown."""
         names = list(instance.portNames)
+        positions = _ordered_positions(instance)
         pins = []
-        for position, connection in enumerate(instance.portConnections):
-            pin_name = verilog_name(names[position]) if position < len(names) and names[position] else f"#{position}"
+        for index, connection in enumerate(instance.portConnections):
+            position = positions[index] if index < len(positions) else index
+            pin_name = verilog_name(names[index]) if index < len(names) and names[index] else f"#{position}"
             expression = getattr(connection, "expr", None)
             bits = self._connection_bits(expression, f"{name}.{pin_name}", 1, instance.location) if expression else []
             pins.append((bits, pin_name))
@@ -462,6 +471,41 @@ class TemplateBuilder:
         for bit in written:
             self._pin(bit, PinDirection.OUT, names[bit])
         self._end_cell()
+
+
+def _bit_names(name: str, symbol_type: object) -> list[str]:
+    """The name of each bit of a net of ``symbol_type``, LSB first: ``d``, ``d[0]``, ``m[1][0]``."""
+    width = symbol_type.bitWidth
+    declared = symbol_type.fixedRange
+    if width == 1 and not symbol_type.isPackedArray:
+        return [name]
+    descending = declared.left >= declared.right
+    if declared.width == width or not symbol_type.isPackedArray:
+        first, step = (declared.lower, 1) if descending else (declared.upper, -1)
+        return [f"{name}[{first + step * offset}]" for offset in range(width)]
+    # packed multi-dimensional: name the outer index, then the offset inside it
+    per_element = width // declared.width
+    names = []
+    for offset in range(width):
+        outer, inner = divmod(offset, per_element)
+        index = declared.lower + outer if descending else declared.upper - outer
+        names.append(f"{name}[{index}][{inner}]")
+    return names
+
+
+def _ordered_positions(instance: ast.Symbol) -> list[int]:
+    """The position in the written list of each connection slang kept for an undefined instance.
+
+    slang drops empty ordered connections (``other m (a, , z)``) from ``portConnections``, so
+    counting those would name ``z`` pin ``#1`` instead of ``#2``; the syntax still has them.
+    """
+    node = instance.syntax
+    connections = getattr(node, "connections", None) if node is not None else None
+    if connections is None:
+        return []
+    written = [item for item in connections if isinstance(item, syntax.SyntaxNode)]
+    kept = [position for position, item in enumerate(written) if item.kind != syntax.SyntaxKind.EmptyPortConnection]
+    return kept if len(kept) == len(instance.portConnections) else []
 
 
 def _is_edge_triggered(statement: ast.Statement) -> bool:

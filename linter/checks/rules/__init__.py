@@ -1,0 +1,1 @@
+"""One module per rule; each registers itself with :func:`linter.checks.registry.rule`."""

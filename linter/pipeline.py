@@ -1,0 +1,53 @@
+"""The pipeline of the main job, stage after stage: design file -> netlist -> annotation -> checks.
+
+This is the one module that knows the order of the stages; each stage stays ignorant of the
+ones after it.
+"""
+
+from __future__ import annotations
+
+import argparse
+from collections.abc import Iterable, Mapping
+
+from linter.annotate import Annotation, annotate
+from linter.checks.engine import CheckResult, run_checks
+from linter.checks.finding import Severity
+from linter.electrical.design_model import Design
+from linter.errors import UsageError
+from linter.netlist import DesignGraph, build_design
+from linter.netlist.progress import Progress
+
+
+def load_check_design(args: argparse.Namespace) -> Design:
+    """The design a ``check``-like command was given: a design file, or a bare netlist."""
+    from linter.commands.check import design_inputs
+    from linter.electrical.bare_design import bare_design
+    from linter.electrical.design_file import load_design
+
+    design_file, verilog = design_inputs(args.inputs)
+    if design_file is not None:
+        for option in ("family", "rail", "family_dir", "top"):
+            if getattr(args, option, None):
+                raise UsageError(f"--{option.replace('_', '-')} is for bare netlists; the design file says this")
+        return load_design(design_file)
+    if not args.family or not args.rail:
+        raise UsageError("a bare netlist needs --family and --rail (or give a design file)")
+    return bare_design(verilog, args.top, args.include_dirs, args.defines, args.family, args.rail, args.family_dir)
+
+
+def read_netlist(design: Design, progress: bool = False) -> DesignGraph:
+    spec = design.netlist
+    leaf_modules = [name for name in design.parts.parts]
+    with Progress(enabled=progress) as bar:
+        return build_design(spec.files, spec.top or None, spec.include_dirs,
+                            [n if v is None else f"{n}={v}" for n, v in spec.defines],
+                            leaf_modules=leaf_modules, progress=bar)
+
+
+def annotate_design(design: Design, progress: bool = False) -> Annotation:
+    return annotate(read_netlist(design, progress), design)
+
+
+def check_annotation(annotation: Annotation, rules: Iterable[str] | None = None,
+                     overrides: Mapping[str, Severity] | None = None) -> CheckResult:
+    return run_checks(annotation, rules, overrides)

@@ -1,0 +1,1 @@
+"""Tests of ``levelcross curve``: characterising a part from its measured transfer curve."""
