@@ -9,6 +9,8 @@ from __future__ import annotations
 import argparse
 from collections.abc import Iterable, Mapping
 
+import numpy as np
+
 from linter.annotate import Annotation, annotate
 from linter.checks.engine import CheckResult, run_checks
 from linter.checks.finding import Severity
@@ -16,6 +18,7 @@ from linter.electrical.design_model import Design
 from linter.errors import UsageError
 from linter.netlist import DesignGraph, build_design
 from linter.netlist.progress import Progress
+from linter.report.model import CheckReport
 
 
 def load_check_design(args: argparse.Namespace) -> Design:
@@ -51,3 +54,39 @@ def annotate_design(design: Design, progress: bool = False) -> Annotation:
 def check_annotation(annotation: Annotation, rules: Iterable[str] | None = None,
                      overrides: Mapping[str, Severity] | None = None) -> CheckResult:
     return run_checks(annotation, rules, overrides)
+
+
+def assignment_coverage(annotation: Annotation) -> dict[str, int]:
+    """How many cells and top-level ports got both a family and a rail."""
+    cells = (annotation.cell_family >= 0) & (annotation.cell_rail >= 0)
+    ep = annotation.endpoints
+    port_ok: dict[int, bool] = {}
+    for e in np.flatnonzero(ep.port >= 0).tolist():
+        port = int(ep.port[e])
+        port_ok[port] = port_ok.get(port, True) and bool(ep.family[e] >= 0 and ep.rail[e] >= 0)
+    return {
+        "cells_assigned": int(cells.sum()), "cells_total": int(cells.size),
+        "ports_assigned": int(sum(port_ok.values())), "ports_total": len(annotation.graph.ports),
+    }
+
+
+def check_design(design: Design, rules: Iterable[str] | None = None,
+                 overrides: Mapping[str, Severity] | None = None, progress: bool = False) -> CheckReport:
+    """The whole main job for one design: read, annotate, check, and package for the reporters."""
+    from linter import __version__
+    from linter.cli import CAUTION
+
+    annotation = annotate_design(design, progress)
+    result = check_annotation(annotation, rules, overrides)
+    return CheckReport(
+        design=annotation.graph.top,
+        design_file=None if str(design.path).startswith("<") else str(design.path),
+        tool_version=__version__,
+        findings=result.findings,
+        waived=result.waived,
+        rules=result.rules,
+        coverage=assignment_coverage(annotation),
+        rails={name: (r.nominal, r.minimum, r.maximum) for name, r in sorted(design.rails.items())},
+        power_states={s.name: list(s.rails_off) for s in design.power_states},
+        caution=CAUTION,
+    )

@@ -9,7 +9,7 @@ from linter.annotate import Annotation
 from linter.checks.context import CheckContext
 from linter.checks.finding import Finding, Severity, Site
 from linter.checks.registry import Rule, all_rules
-from linter.errors import SourceLocation, UsageError
+from linter.errors import InputError, SourceLocation, UsageError
 
 WAIVER_RULE = "waiver-matches-nothing"
 
@@ -28,6 +28,9 @@ def run_checks(annotation: Annotation, only: Iterable[str] | None = None,
     selected = set(only) if only is not None else known
     for rule_id in sorted(selected - known):
         raise UsageError(f"unknown rule '{rule_id}' (see 'levelcross explain')")
+    for waiver in annotation.design.waivers:
+        if waiver.rule not in known:
+            raise InputError(f"waiver names unknown rule '{waiver.rule}' (see 'levelcross explain')", waiver.location)
     overrides = dict(severity_overrides or {})
     for rule_id in sorted(set(overrides) - known):
         raise UsageError(f"unknown rule '{rule_id}' in a severity override")

@@ -45,7 +45,7 @@ def run(args: argparse.Namespace) -> int:
         write_atomic(args.output, text)
     else:
         sys.stdout.write(text)
-    return EXIT_FINDINGS if report.counts()["errors"] else EXIT_CLEAN
+    return EXIT_FINDINGS if report.summary.errors else EXIT_CLEAN
 
 
 def _show_progress(args: argparse.Namespace) -> bool:
