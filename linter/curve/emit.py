@@ -33,7 +33,7 @@ from linter.errors import InputError, UsageError
 from linter.yamlio import load_yaml_text
 
 _NAME_CHARACTER = re.compile(r"[^A-Za-z0-9_.-]")
-MEASURED = "confirmed by this measurement only, one sample, not a rated limit"
+MEASURED = "measured on one sample, not a rated limit"
 
 
 def family_name_for(output: str | Path) -> str:

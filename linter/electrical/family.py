@@ -65,6 +65,7 @@ class SourceStatus(enum.Enum):
     """How sure a value is, weakest first; a value's status is the weakest phrase in its source."""
 
     FROM_MEMORY = "from memory"
+    MEASURED = "measured"  # one bench sample (levelcross curve --emit-family): not a rated limit
     CONFIRMED_INDIRECTLY = "confirmed indirectly"
     COMMON_PRACTICE = "common practice"
     CONFIRMED = "confirmed"

@@ -252,7 +252,7 @@ class _Reader:
                 raise InputError(f"the source of '{key}' must be text, got {_describe(value)}", block.where(key))
             source = Source(" ".join(value.split()))
             if source.status is None:
-                raise InputError(f"the source of '{key}' must say how sure it is ('from memory', "
+                raise InputError(f"the source of '{key}' must say how sure it is ('from memory', 'measured', "
                                  "'common practice', 'confirmed', 'confirmed indirectly')", block.where(key))
             result[key] = source
         for key in SOURCED_KEYS:

@@ -132,6 +132,9 @@ def _report(compilation: ast.Compilation, source_manager: pyslang.SourceManager)
             code = str(diagnostic.code)[9:-1]
             if code == "InvalidTopModule":
                 message = message.rstrip(".") + " (check --top)"
+            elif code == "ExceededMaxIncludeDepth":
+                # slang stops a file that includes itself only at its depth limit; say why
+                message += " (does a file `include itself, directly or through others?)"
             errors.append((key, InputError(message, where if where.file != "<unknown>" else None)))
         elif severity == pyslang.DiagnosticSeverity.Warning:
             option = engine.getOptionName(diagnostic.code) or str(diagnostic.code)[9:-1]

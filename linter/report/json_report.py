@@ -114,4 +114,7 @@ def finding_from_dict(item: Mapping[str, Any]) -> Finding:
 
 
 def _location_from_dict(item: Mapping[str, Any]) -> SourceLocation:
-    return SourceLocation(str(item["file"]), int(item["line"]), int(item["column"]))
+    file, line, column = item["file"], item["line"], item["column"]
+    if not isinstance(file, str) or not isinstance(line, int) or not isinstance(column, int):
+        raise TypeError(f"location must be a file name and two integers, got {dict(item)}")
+    return SourceLocation(file, line, column)

@@ -15,7 +15,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from linter.checks.finding import Finding
-from linter.report.model import CheckReport, coverage_phrases, format_volts
+from linter.report.model import CheckReport, coverage_phrases, format_volts, location_text
 
 _BIT = re.compile(r"(?P<base>.+)\[(?P<index>\d+)\]\Z")
 _PLACEHOLDER = "\x00"
@@ -158,7 +158,8 @@ def _findings_table(findings: Sequence[Finding]) -> list[str]:
     keys = sorted({key for f in findings for key, value in f.data.items() if _is_number(value)})
     header = ["Severity", "Location", "Subject", "Message", *(_escape(k) for k in keys)]
     lines = [_row(header), _row(["---"] * 4 + ["---:"] * len(keys))]
-    for group in group_bus_bits(findings):
+    # Worst first inside a section too; the engine's order otherwise (the sort is stable).
+    for group in group_bus_bits(sorted(findings, key=lambda f: f.severity.rank)):
         numbers = [_number(group.first.data.get(key)) for key in keys]
         lines.append(
             _row([group.first.severity.value, _where(group), _subject(group), _escape(group.message), *numbers])
@@ -179,7 +180,9 @@ def _waived_section(report: CheckReport) -> list[str]:
 
 def _where(group: FindingGroup) -> str:
     first, last = group.members[0].location, group.members[-1].location
-    return _code(str(first)) if first == last else f"{_code(str(first))} to {_code(str(last))}"
+    if first == last:
+        return _code(location_text(first))
+    return f"{_code(location_text(first))} to {_code(location_text(last))}"
 
 
 def _subject(group: FindingGroup) -> str:
@@ -194,8 +197,6 @@ def _is_number(value: object) -> bool:
 def _number(value: object) -> str:
     if not _is_number(value):
         return ""
-    if isinstance(value, float) and value.is_integer():
-        return str(int(value))
     return repr(value)
 
 

@@ -12,6 +12,7 @@ from dataclasses import dataclass, field
 
 from linter.checks.finding import Finding, Severity
 from linter.checks.registry import Rule
+from linter.errors import SourceLocation
 
 
 @dataclass(frozen=True)
@@ -74,6 +75,11 @@ def coverage_phrases(coverage: Mapping[str, int]) -> list[str]:
     phrases = [f"{f.kind} assigned {f.assigned} of {f.total}" for f in figures]
     phrases += [f"{key.replace('_', ' ')} {value}" for key, value in others]
     return phrases
+
+
+def location_text(location: SourceLocation) -> str:
+    """``file:line:col`` as far as known; a location with no file says so."""
+    return str(location) or "(no location)"
 
 
 def format_volts(value: float) -> str:

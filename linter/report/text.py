@@ -9,6 +9,7 @@ and never parsed as rich markup (net names such as ``data[7]`` are taken literal
 from __future__ import annotations
 
 import io
+import re
 from collections.abc import Sequence
 
 from rich.console import Console, RenderableType
@@ -17,10 +18,14 @@ from rich.table import Table
 from rich.text import Text
 
 from linter.checks.finding import Finding, Severity
-from linter.report.model import CheckReport, Summary, coverage_phrases, format_volts
+from linter.report.model import CheckReport, Summary, coverage_phrases, format_volts, location_text
 
 WIDTH = 120
+MESSAGE_INDENT = 4
 SITE_INDENT = 6
+# Trailing blanks, possibly interleaved with colour codes: the codes are kept, the blanks dropped.
+_TRAILING_BLANKS = re.compile(r"(?: |\x1b\[[0-9;]*m)+$")
+_COLOUR_CODE = re.compile(r"\x1b\[[0-9;]*m")
 _SEVERITY_STYLE = {Severity.ERROR: "bold red", Severity.WARNING: "bold yellow", Severity.NOTE: "bold cyan"}
 
 
@@ -43,7 +48,11 @@ def render_text(report: CheckReport, color: bool = False) -> str:
     for block in _blocks(report):
         console.print(block)
     # rich pads table and indented lines out to the full width; the padding carries nothing.
-    return "".join(line.rstrip() + "\n" for line in buffer.getvalue().splitlines())
+    return "".join(_without_trailing_blanks(line) + "\n" for line in buffer.getvalue().splitlines())
+
+
+def _without_trailing_blanks(line: str) -> str:
+    return _TRAILING_BLANKS.sub(lambda tail: "".join(_COLOUR_CODE.findall(tail.group())), line)
 
 
 def _blocks(report: CheckReport) -> list[RenderableType]:
@@ -81,6 +90,8 @@ def _title(report: CheckReport) -> Text:
 
 
 def _supply_tables(report: CheckReport) -> list[RenderableType]:
+    rails: RenderableType
+    states: RenderableType
     if report.rails:
         rails = Table(title="Rails", title_justify="left", box=None, padding=(0, 2), show_edge=False)
         for heading in ("rail", "nominal", "minimum", "maximum"):
@@ -112,38 +123,33 @@ def _group_heading(report: CheckReport, severity: Severity, rule_id: str, count:
     return heading
 
 
-def _located_message(location: str, message: str) -> Padding:
-    """Location then message; a long message wraps under itself, not under the location."""
-    line = Table.grid(padding=(0, 2))
-    line.add_column(no_wrap=True)
-    line.add_column()
-    line.add_row(Text(location, style="bold"), Text(message))
-    return Padding(line, (0, 0, 0, 2))
+def _located_message(location: str, message: str) -> list[RenderableType]:
+    """The location on its own line, the message under it; a long message wraps indented."""
+    return [Padding(Text(location, style="bold"), (0, 0, 0, 2)), Padding(Text(message), (0, 0, 0, MESSAGE_INDENT))]
 
 
 def _finding_blocks(finding: Finding) -> list[RenderableType]:
-    blocks: list[RenderableType] = [_located_message(str(finding.location), finding.message)]
+    blocks = _located_message(location_text(finding.location), finding.message)
     if finding.sites:
         sites = Table.grid(padding=(0, 2))
         for _ in range(3):
             sites.add_column(no_wrap=True)
         for site in finding.sites:
-            sites.add_row(Text(site.role, style="dim"), Text(site.name), Text(str(site.location)))
+            sites.add_row(Text(site.role, style="dim"), Text(site.name), Text(location_text(site.location)))
         blocks.append(Padding(sites, (0, 0, 0, SITE_INDENT)))
     return blocks
 
 
 def _waived_blocks(finding: Finding) -> list[RenderableType]:
     reason = Text(f"reason: {finding.waiver_reason or '(none given)'}", style="italic")
-    located = _located_message(str(finding.location), f"{finding.rule}: {finding.message}")
-    return [located, Padding(reason, (0, 0, 0, SITE_INDENT))]
+    located = _located_message(location_text(finding.location), f"{finding.rule}: {finding.message}")
+    return [*located, Padding(reason, (0, 0, 0, SITE_INDENT))]
 
 
 def summary_line(summary: Summary) -> str:
     """"2 errors, 1 warning, 0 notes; 1 waived": the closing count, in words."""
-    counts = ", ".join(
-        _count(n, word) for n, word in ((summary.errors, "error"), (summary.warnings, "warning"), (summary.notes, "note"))
-    )
+    kinds = ((summary.errors, "error"), (summary.warnings, "warning"), (summary.notes, "note"))
+    counts = ", ".join(_count(number, word) for number, word in kinds)
     return f"{counts}; {summary.waived} waived"
 
 
