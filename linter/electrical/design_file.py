@@ -106,7 +106,7 @@ Example (invented; the test fixture ``tests/electrical/fixtures/demo/design.yaml
       demo_top.spi_miso: {max_rate_hz: 25000000}
     movable_cells: [demo_top.u_glue.*]
     waivers:
-      - rule: floating-input
+      - rule: input-floating
         net: demo_top.spare_in
         reason: Invented example; the spare pad is tied low on the board.
 

@@ -1,9 +1,10 @@
 """The check results for a person at a terminal: findings grouped by severity and rule.
 
 Errors come first, then warnings, then notes; inside a group the findings keep the engine's
-order. Each finding shows its location and message, then every site involved, indented. The
-text is built with rich and captured to a string 120 columns wide, coloured only on request,
-and never parsed as rich markup (net names such as ``data[7]`` are taken literally).
+order. Each finding shows its location, its message indented below, then every site involved
+(role, name, location) indented further. The text is built with rich and captured to a string
+120 columns wide, coloured only on request, and never parsed as rich markup (net names such as
+``data[7]`` are taken literally).
 """
 
 from __future__ import annotations

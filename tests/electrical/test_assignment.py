@@ -212,11 +212,11 @@ def test_net_rules(rules: AssignmentResolver) -> None:
 def test_movable_cells_and_waivers(rules: AssignmentResolver) -> None:
     assert rules.is_movable("demo_top.u_core.g1") is True
     assert rules.is_movable("demo_top.u_core2.g1") is False
-    floating = rules.waivers("floating-input", net="demo_top.spare_in", cell="demo_top.u_core.g1")
+    floating = rules.waivers("input-floating", net="demo_top.spare_in", cell="demo_top.u_core.g1")
     assert [waiver.applies_to for waiver in floating] == ["net", "cell"]
     assert [w.rule for w in rules.waivers("over-voltage", net="demo_top.spare_in")] == ["over-voltage"]
     assert rules.waivers("over-voltage", net="demo_top.spare_out") == ()
-    assert rules.waivers("floating-input", cell="demo_top.spare_in") == ()
+    assert rules.waivers("input-floating", cell="demo_top.spare_in") == ()
 
 
 def test_without_a_default_uncovered_cells_and_ports_stay_unassigned() -> None:

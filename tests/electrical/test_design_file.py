@@ -139,7 +139,7 @@ def test_planner_hints_and_waivers(demo: Design) -> None:
     assert _pattern_texts(demo.movable_cells) == ["demo_top.u_glue.*"]
     assert demo.waivers == (
         Waiver(
-            "floating-input", NamePattern("demo_top.spare_in"), "net",
+            "input-floating", NamePattern("demo_top.spare_in"), "net",
             "Invented example; the spare pad is tied low on the board.",
         ),
     )

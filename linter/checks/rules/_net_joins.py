@@ -112,6 +112,7 @@ class NetJoins:
     net_sink_a: np.ndarray  # per net: summed -IIL of its known receivers
     pull_ups: dict[int, PullUpSummary]  # net -> its pull-ups (only nets that have one with a rail)
     pull_up_rail: np.ndarray  # per net: PullUpSummary.rail, -1 without
+    pull_up_ohm: np.ndarray  # per net: PullUpSummary.ohms, 0.0 for an ideal pull-up or none
 
     def driver_load_pa(self, context: CheckContext, drivers: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """The DC load (source, sink) on each driver endpoint in picoamps, leaving out its own input."""
@@ -149,12 +150,15 @@ def _compute(context: CheckContext) -> NetJoins:
     rails = {name: i for i, name in enumerate(ep.rail_names)}
     pull_ups = {}
     pull_up_rail = np.full(count, -1, np.int32)
+    pull_up_ohm = np.zeros(count)
     for net in sorted(annotation.pulls):
         summary = _summarize_pull_ups(annotation.pulls[net], rails, annotation.rails)
         if summary is not None:
             pull_ups[net] = summary
             pull_up_rail[net] = summary.rail
-    return NetJoins(family_source, family_sink, load_receiver, net_source, net_sink, pull_ups, pull_up_rail)
+            pull_up_ohm[net] = summary.ohms or 0.0
+    return NetJoins(family_source, family_sink, load_receiver, net_source, net_sink, pull_ups,
+                    pull_up_rail, pull_up_ohm)
 
 
 def _summarize_pull_ups(sources, rail_index: dict[str, int], rails) -> PullUpSummary | None:
