@@ -19,12 +19,21 @@ def write_atomic(path: str | os.PathLike[str], text: str | bytes) -> None:
     folder = target.parent if str(target.parent) else Path(".")
     if not folder.is_dir():
         raise InputError(f"cannot write '{target}': folder '{folder}' does not exist")
+    if target.is_dir():
+        raise InputError(f"cannot write '{target}': it is a folder")
     data = text.encode("utf-8") if isinstance(text, str) else text
-    fd, tmp_name = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
+    try:
+        fd, tmp_name = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
+    except OSError as error:
+        raise InputError(f"cannot write '{target}': {error.strerror}") from None
     try:
         with os.fdopen(fd, "wb") as handle:
             handle.write(data)
         os.replace(tmp_name, target)
+    except OSError as error:
+        if os.path.exists(tmp_name):
+            os.unlink(tmp_name)
+        raise InputError(f"cannot write '{target}': {error.strerror}") from None
     except BaseException:
         if os.path.exists(tmp_name):
             os.unlink(tmp_name)

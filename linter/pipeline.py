@@ -9,8 +9,6 @@ from __future__ import annotations
 import argparse
 from collections.abc import Iterable, Mapping
 
-import numpy as np
-
 from linter.annotate import Annotation, annotate
 from linter.checks.engine import CheckResult, run_checks
 from linter.checks.finding import Severity
@@ -56,24 +54,11 @@ def check_annotation(annotation: Annotation, rules: Iterable[str] | None = None,
     return run_checks(annotation, rules, overrides)
 
 
-def assignment_coverage(annotation: Annotation) -> dict[str, int]:
-    """How many cells and top-level ports got both a family and a rail."""
-    cells = (annotation.cell_family >= 0) & (annotation.cell_rail >= 0)
-    ep = annotation.endpoints
-    port_ok: dict[int, bool] = {}
-    for e in np.flatnonzero(ep.port >= 0).tolist():
-        port = int(ep.port[e])
-        port_ok[port] = port_ok.get(port, True) and bool(ep.family[e] >= 0 and ep.rail[e] >= 0)
-    return {
-        "cells_assigned": int(cells.sum()), "cells_total": int(cells.size),
-        "ports_assigned": int(sum(port_ok.values())), "ports_total": len(annotation.graph.ports),
-    }
-
-
 def check_design(design: Design, rules: Iterable[str] | None = None,
                  overrides: Mapping[str, Severity] | None = None, progress: bool = False) -> CheckReport:
     """The whole main job for one design: read, annotate, check, and package for the reporters."""
     from linter import __version__
+    from linter.checks.rules.family_unassigned import assignment_coverage
     from linter.cli import CAUTION
 
     annotation = annotate_design(design, progress)

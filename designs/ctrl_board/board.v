@@ -1,6 +1,6 @@
-// INVENTED EXAMPLE: the top level of the levelcross demo controller board, made up to exercise
-// every rule. It describes no real product; no real part numbers or brands. The faults marked
-// "seeded fault: <rule id>" are deliberate and listed, with their numbers, in EXPECTED.md.
+// INVENTED EXAMPLE: describes no real product. The top level of the levelcross demo
+// controller board, made up to exercise every rule; no real part numbers or brands. The faults
+// marked "seeded fault: <rule id>" are deliberate and listed, with their numbers, in EXPECTED.md.
 module ctrl_board (
   input         clk_ref,    // 3.3 V reference clock from the connector
   input         sense_in,   // 3.3 V sense line over a cable from the connector

@@ -1,5 +1,5 @@
-// INVENTED EXAMPLE: the 1.8 V I/O bank of an FPGA-like device on the levelcross demo
-// controller board. It describes no real product. Every pad passes through an I/O cell (a gate
+// INVENTED EXAMPLE: describes no real product. The 1.8 V I/O bank of an FPGA-like device on
+// the levelcross demo controller board. Every pad passes through an I/O cell (a gate
 // primitive); design.yaml gives the module the default family LVCMOS18 on VCC1V8 and makes the
 // two bus driver cells open-drain (family OD-TWOWIRE).
 module fpga_bank18 (

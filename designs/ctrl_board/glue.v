@@ -1,5 +1,5 @@
-// INVENTED EXAMPLE: discrete glue logic of the levelcross demo controller board. It describes
-// no real product. design.yaml gives glue33 the module default LVCMOS33 on VCC3V3 and
+// INVENTED EXAMPLE: describes no real product. Discrete glue logic of the levelcross demo
+// controller board. design.yaml gives glue33 the module default LVCMOS33 on VCC3V3 and
 // ttl_strobe5 the module default TTL5 on VCC5V0.
 
 // 3.3 V glue between the microcontroller's general-purpose outputs and the status LEDs.

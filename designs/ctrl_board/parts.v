@@ -1,5 +1,5 @@
-// INVENTED EXAMPLE: the part modules of the levelcross demo controller board. It describes no
-// real product; every name is made up. Each module is a black box: its ports give the pin
+// INVENTED EXAMPLE: describes no real product. The part modules of the levelcross demo
+// controller board; every name is made up. Each module is a black box: its ports give the pin
 // directions, and parts.yaml gives each pin its family and rail.
 
 // 3.3 V microcontroller (LVCMOS33 pins; one 5 V tolerant input for the actuator's fault line).

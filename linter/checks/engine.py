@@ -57,8 +57,12 @@ def _apply_waivers(annotation: Annotation, findings: list[Finding]) -> tuple[lis
         cell = finding.subject if finding.subject_kind == "cell" else None
         matches = list(resolver.waivers(finding.rule, net=net, cell=cell))
         for site in finding.sites:  # a waiver on any cell or net involved covers the finding
-            owner = site.name.rsplit(".", 1)[0] if site.role in ("driver", "receiver", "hop") else site.name
-            matches.extend(resolver.waivers(finding.rule, net=site.name, cell=owner))
+            if site.role == "net":
+                matches.extend(resolver.waivers(finding.rule, net=site.name))
+            elif site.role == "hop":
+                matches.extend(resolver.waivers(finding.rule, cell=site.name))
+            elif site.role.startswith(("driver", "receiver")) and not site.name.startswith("port "):
+                matches.extend(resolver.waivers(finding.rule, cell=site.name.rsplit(".", 1)[0]))
         if matches:
             first = min(matches, key=lambda w: order[id(w)])
             used.update(id(w) for w in matches)

@@ -25,6 +25,17 @@ def combinational_arcs(graph: DesignGraph) -> tuple[np.ndarray, np.ndarray, np.n
     ``EXPLICIT`` cells contribute their listed arcs; ``NONE`` cells (sequential, ties, pulls)
     none. Pins on constants are left out. Vectorised: no Python loop over cells.
     """
+    src, dst, cell, _ = marked_combinational_arcs(graph)
+    return src, dst, cell
+
+
+def marked_combinational_arcs(graph: DesignGraph) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """:func:`combinational_arcs` plus a mask of the arcs that join two inout pins of one cell.
+
+    Such a cell (a bidirectional translator, a ``tran`` switch) passes a level either way
+    between the two nets, so they get an arc each way; the loop check must not mistake that
+    pair of arcs for a loop on its own.
+    """
     pin_cell = graph.pin_cell()
     nets = graph.pin_net
     direction = graph.pin_direction
@@ -48,6 +59,7 @@ def combinational_arcs(graph: DesignGraph) -> tuple[np.ndarray, np.ndarray, np.n
     src = nets[src_pin[keep]]
     dst = nets[dst_pin[keep]]
     cell = pin_cell[src_pin[keep]]
+    bidirectional = (direction[src_pin[keep]] == PinDirection.INOUT) & (direction[dst_pin[keep]] == PinDirection.INOUT)
     if graph.arc_from_pin.size:
         explicit_src = nets[graph.arc_from_pin]
         explicit_dst = nets[graph.arc_to_pin]
@@ -55,4 +67,5 @@ def combinational_arcs(graph: DesignGraph) -> tuple[np.ndarray, np.ndarray, np.n
         src = np.concatenate((src, explicit_src[ok]))
         dst = np.concatenate((dst, explicit_dst[ok]))
         cell = np.concatenate((cell, pin_cell[graph.arc_from_pin[ok]]))
-    return src.astype(np.int32), dst.astype(np.int32), cell.astype(np.int32)
+        bidirectional = np.concatenate((bidirectional, np.zeros(int(ok.sum()), bool)))
+    return src.astype(np.int32), dst.astype(np.int32), cell.astype(np.int32), bidirectional

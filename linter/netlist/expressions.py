@@ -1,7 +1,8 @@
 """From slang expressions to net bits: which bits an expression names, and what each result bit reads.
 
 Bits are integers local to one module body (see :mod:`linter.netlist.template`), listed LSB first;
-negative integers are the constants of :mod:`linter.netlist.graph`.
+negative integers are the constants of :mod:`linter.netlist.graph`. Literals, parameters and any
+operator slang folded to a value (``W + 1``, ``-1``) name constant bits, never logic.
 
 Precision, per operator (documented because the loop check relies on it):
 
@@ -65,12 +66,33 @@ class UnsupportedExpression(Exception):
 
 def constant_bits(value: pyslang.SVInt, width: int) -> list[int]:
     """The constant bits of a literal, LSB first, zero-extended to ``width``."""
+    if value.isSigned and not value.hasUnknown and value.isNegative():
+        # slang prints a negative signed value with a minus sign (8'shFD as "-11"), which read
+        # as digits would give 8'b00000011; its two's complement bits are what the wires carry
+        number = int(value)
+        bits = [CONST1 if (number >> offset) & 1 else CONST0 for offset in range(value.bitWidth)]
+        return (bits + [CONST0] * max(0, width - len(bits)))[:width]
     digits = value.toString(pyslang.LiteralBase.Binary, False)
     digits = digits.split("b", 1)[-1] if "'" in digits else digits
     bits = [_CONSTANT_OF_DIGIT.get(d, CONST0) for d in reversed(digits) if d != "_"]
     if len(bits) < width:
         bits.extend([CONST0] * (width - len(bits)))
     return bits[:width]
+
+
+def _folded_bits(expression: ast.Expression) -> list[int] | None:
+    """The bits of an expression slang evaluated to a constant integer, or None.
+
+    Only what slang already folded is used (``expression.constant``, a parameter's value): no
+    evaluation is started here, so expressions that read nets cost one attribute lookup.
+    """
+    constant = expression.constant
+    if constant is None and expression.kind == EK.NamedValue and expression.symbol.kind == ast.SymbolKind.Parameter:
+        constant = expression.symbol.value
+    value = constant.value if constant is not None else None
+    if not isinstance(value, pyslang.SVInt):
+        return None
+    return constant_bits(value, expression.type.bitWidth)
 
 
 def _constant_int(expression: ast.Expression) -> int:
@@ -103,6 +125,9 @@ class BitResolver:
         if kind == EK.NamedValue:
             info = self._symbol_bits(expression.symbol)
             if info is None:
+                folded = _folded_bits(expression)
+                if folded is not None:  # a parameter: constant bits, like a literal
+                    return folded
                 raise UnsupportedExpression(expression, f"'{expression.symbol.name}' is not a net of this module")
             return list(range(info.base, info.base + info.width))
         if kind == EK.Assignment:
@@ -124,7 +149,7 @@ class BitResolver:
             return None if inner is None else inner * _constant_int(expression.count)
         if kind == EK.Conversion:
             inner = self.bits(expression.operand)
-            return None if inner is None else self._resize(inner, expression)
+            return _folded_bits(expression) if inner is None else self._resize(inner, expression)
         if kind == EK.IntegerLiteral:
             return constant_bits(expression.value, expression.type.bitWidth)
         if kind == EK.UnbasedUnsizedIntegerLiteral:
@@ -134,7 +159,8 @@ class BitResolver:
             return []
         if kind == EK.HierarchicalValue:
             raise UnsupportedExpression(expression, "hierarchical references are not supported in a netlist")
-        return None
+        # an operator slang folded to a constant (``W + 1``, ``-1``) drives constants, not logic
+        return _folded_bits(expression)
 
     def _resize(self, bits: list[int], expression: ast.Expression) -> list[int]:
         width = expression.type.bitWidth

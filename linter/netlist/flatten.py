@@ -70,7 +70,7 @@ class Flattener:
         self.raw_bits = 0
         self.link_a: list[int] = []
         self.link_b: list[int] = []
-        self.ties: list[tuple[int, int]] = []
+        self.ties: list[tuple[int, int, str]] = []  # (raw bit, constant, module instance written in)
 
     def _template(self, body: ast.Symbol) -> tuple[Template, _Arrays]:
         entry = self.templates.get(body)
@@ -87,7 +87,7 @@ class Flattener:
         if self.progress is not None:
             self.progress(len(template.cell_names))
         offset = instance.net_offset
-        self.ties.extend((offset + bit, constant) for bit, constant in template.ties)
+        self.ties.extend((offset + bit, constant, path) for bit, constant in template.ties)
         for child in template.children:
             inner = self._visit(child.body, f"{path}.{child.name}", depth + 1)
             for port_name, parent_bits in child.links:
@@ -97,7 +97,7 @@ class Flattener:
                         self.link_a.append(offset + parent_bit)
                         self.link_b.append(inner.net_offset + child_bit)
                     else:
-                        self.ties.append((inner.net_offset + child_bit, parent_bit))
+                        self.ties.append((inner.net_offset + child_bit, parent_bit, path))
         return instance
 
     def run(self, top: ast.InstanceSymbol) -> DesignGraph:
@@ -200,10 +200,13 @@ class Flattener:
             pin_base += arr.pin_net.size
 
         tie_loc = []
-        for net, constant in sorted({(int(net_of_raw[raw]), c) for raw, c in self.ties}):
+        tie_module: dict[tuple[int, int], str] = {}
+        for raw, constant, path in self.ties:  # the first place a tie is written names its module
+            tie_module.setdefault((int(net_of_raw[raw]), constant), path)
+        for (net, constant), path in sorted(tie_module.items()):
             cell_names.append(f"{net_names[net]}={CONSTANT_NAMES[constant]}")
             cell_kinds.append(_TIE_KIND[constant])
-            cell_module.append(top_name)
+            cell_module.append(path)
             pin_names.append("t0")
             classes.append(np.asarray([CellClass.TIE], np.int8))
             modes.append(np.asarray([ArcMode.NONE], np.int8))

@@ -19,7 +19,10 @@ from linter.netlist.locations import LocationTable
 
 SK = ast.SymbolKind
 _SIMPLE_NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_$]*\Z")
-_BLACKBOX_MEMBERS = {SK.Port, SK.Net, SK.Variable, SK.Parameter, SK.TypeParameter, SK.TypeAlias, SK.Genvar}
+# Timing-only cell models (ports plus a specify block) are black boxes too: a specify block holds
+# path delays, no logic, and flattening such a cell would leave its outputs undriven.
+_BLACKBOX_MEMBERS = {SK.Port, SK.Net, SK.Variable, SK.Parameter, SK.TypeParameter, SK.TypeAlias, SK.Genvar,
+                     SK.SpecifyBlock, SK.Specparam}
 _PRIMITIVE_DIRECTION = {
     ast.PrimitivePortDirection.In: PinDirection.IN,
     ast.PrimitivePortDirection.Out: PinDirection.OUT,
@@ -121,7 +124,7 @@ class TemplateBuilder:
     def _allocate(self, symbol: ast.Symbol, name: str) -> SymbolBits:
         t = self.template
         symbol_type = symbol.type
-        width = symbol_type.bitWidth
+        width = _bit_width(symbol_type)
         base = len(t.net_names)
         declared = symbol_type.fixedRange
         descending = declared.left >= declared.right
@@ -247,9 +250,14 @@ class TemplateBuilder:
     def _primitive_spec(self, primitive: ast.Symbol) -> tuple[str, int, int, list[int] | None]:
         spec = self._primitive_specs.get(primitive)
         if spec is None:
-            kind = primitive.primitiveKind
+            PK = ast.PrimitiveSymbol.PrimitiveKind
+            try:
+                kind = primitive.primitiveKind
+            except ValueError:
+                # pyslang 12.1 has no Python name for the kind slang gives tran and rtran; their
+                # terminals carry directions (inout) like any fixed-terminal switch
+                kind = PK.Fixed
             name = primitive.name
-            PK = type(kind)
             if kind == PK.UserDefined:
                 arc = ArcMode.NONE if primitive.isSequential else ArcMode.FULL
                 spec = (name, CellClass.GATE, arc, [PinDirection.OUT] + [PinDirection.IN] * (len(primitive.ports) - 1))
@@ -446,7 +454,15 @@ class TemplateBuilder:
         def visit(node: object) -> object:
             if isinstance(node, ast.Expression):
                 if node.kind == EK.Assignment:
-                    for bit in resolver.bits(node.left) or ():
+                    try:
+                        targets = resolver.bits(node.left) or ()
+                    except UnsupportedExpression:
+                        # a write through a computed index (mem[i] <= d) may reach any bit of
+                        # what it selects from, and reads the index; dropping the whole process
+                        # instead would leave all its outputs undriven
+                        targets = _selected_from(resolver, node.left)
+                        read.update(resolver.reads(node.left).difference(targets))
+                    for bit in targets:
                         if bit >= 0:
                             written.setdefault(bit, None)
                     read.update(resolver.reads(node.right))
@@ -473,17 +489,29 @@ class TemplateBuilder:
         self._end_cell()
 
 
+def _bit_width(symbol_type: object) -> int:
+    """How many net bits a net or variable has.
+
+    slang gives an unpacked array (``reg mem [0:3]``) a bit width of 0; counting its elements
+    keeps ``mem[2]`` a real bit instead of silently connecting nothing.
+    """
+    if symbol_type.isUnpackedArray:
+        return symbol_type.selectableWidth
+    return symbol_type.bitWidth
+
+
 def _bit_names(name: str, symbol_type: object) -> list[str]:
     """The name of each bit of a net of ``symbol_type``, LSB first: ``d``, ``d[0]``, ``m[1][0]``."""
-    width = symbol_type.bitWidth
+    width = _bit_width(symbol_type)
     declared = symbol_type.fixedRange
-    if width == 1 and not symbol_type.isPackedArray:
+    is_array = symbol_type.isPackedArray or symbol_type.isUnpackedArray
+    if width == 1 and not is_array:
         return [name]
     descending = declared.left >= declared.right
-    if declared.width == width or not symbol_type.isPackedArray:
+    if declared.width == width or not is_array:
         first, step = (declared.lower, 1) if descending else (declared.upper, -1)
         return [f"{name}[{first + step * offset}]" for offset in range(width)]
-    # packed multi-dimensional: name the outer index, then the offset inside it
+    # multi-dimensional: name the outer index, then the offset inside it
     per_element = width // declared.width
     names = []
     for offset in range(width):
@@ -506,6 +534,18 @@ def _ordered_positions(instance: ast.Symbol) -> list[int]:
     written = [item for item in connections if isinstance(item, syntax.SyntaxNode)]
     kept = [position for position, item in enumerate(written) if item.kind != syntax.SyntaxKind.EmptyPortConnection]
     return kept if len(kept) == len(instance.portConnections) else []
+
+
+def _selected_from(resolver: BitResolver, target: ast.Expression) -> list[int]:
+    """Every bit a write to ``target`` may reach when an index in it is not a constant."""
+    try:
+        return resolver.bits(target) or []
+    except UnsupportedExpression:
+        if target.kind in (EK.ElementSelect, EK.RangeSelect):
+            return _selected_from(resolver, target.value)
+        if target.kind == EK.Concatenation:
+            return [bit for operand in target.operands for bit in _selected_from(resolver, operand)]
+        return []
 
 
 def _is_edge_triggered(statement: ast.Statement) -> bool:

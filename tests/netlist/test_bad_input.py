@@ -40,8 +40,8 @@ CASES = {
     "not UTF-8": (["latin1.v"], "latin1.v:2:9: error: not UTF-8 text (byte 27)"),
     # `include "self_include.v"` on line 2: the file name starts in column 10; slang stops at
     # its include depth limit and the front end says why
-    "recursive include": (["self_include.v"], "self_include.v:2:10: error: exceeded max include depth "
-                          "(does a file `include itself, directly or through others?)"),
+    "recursive include": (["self_include.v"], ("self_include.v:2:10: error: exceeded max include depth "
+                                               "(does a file `include itself, directly or through others?)")),
     "missing include": (["missing_include.v"],
                         "missing_include.v:2:10: error: 'no_such_header.vh': No such file or directory"),
     "folder": (["include"], "levelcross: error: 'include' is a folder, not a Verilog file"),

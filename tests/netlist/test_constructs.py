@@ -97,8 +97,12 @@ def test_gate_primitives_pins_by_position() -> None:
             else:
                 expected[f"gates.{port}"]["receivers"] = sorted(expected[f"gates.{port}"]["receivers"] + [label])
     assert connectivity(graph) == expected
-    # spot check of the table above, written out: input a feeds ten gates
+    # spot checks of the table above, written out: a feeds ten gates; c is the last terminal of
+    # both fan-out gates; f2 is the second output of `buf g_fan (f1, f2, c)`
     assert len(expected["gates.a"]["receivers"]) == 10
+    assert expected["gates.c"] == net(["<port>.c"], ["gates.g_and.t3", "gates.g_fan.t2", "gates.g_nfan.t2"])
+    assert expected["gates.f2"] == net(["gates.g_fan.t1"], ["<port>.f2"])
+    assert expected["gates.t_n1"] == net(["gates.g_n1.t0"], ["<port>.t_n1"])
 
 
 def test_gate_primitives_kinds_classes_and_locations() -> None:
@@ -169,10 +173,10 @@ def test_hierarchy_cells() -> None:
     assert net_where(graph, "top.w") == where("hierarchy.v", 12, 8)
     # the fresh net of an unconnected pin is located at the instance
     assert net_where(graph, "top.bb1.B") == where("hierarchy.v", 15, 12)
-    # `.B()` is named and empty: slang warns (its column is the `(` after `.B`)
+    # `.B()` is named and empty: slang warns at the port name, the `B` in column 25
     assert graph.diagnostics == [
-        f"{where('hierarchy.v', 15, 25)}: warning: input port 'B' is explicitly connected to nothing "
-        "[empty-input-connection]"
+        (f"{where('hierarchy.v', 15, 25)}: warning: input port 'B' is explicitly connected to nothing "
+         "[empty-input-connection]")
     ]
 
 
@@ -266,8 +270,8 @@ def test_assign_bit_precision() -> None:
     }
     # replication {3{x, s}}, MSB first x s x s x s: even bits read s, odd bits read a[0] | b[0]
     assert _arcs(graph, "assigns.assign@9:10") == {
-        *((("s", f"y_rep[{i}]") for i in (0, 2, 4))),
-        *(((v, f"y_rep[{i}]") for i in (1, 3, 5) for v in ("a[0]", "b[0]"))),
+        *(("s", f"y_rep[{i}]") for i in (0, 2, 4)),
+        *((v, f"y_rep[{i}]") for i in (1, 3, 5) for v in ("a[0]", "b[0]")),
     }
     # arithmetic is conservative (expressions.py): a FULL cell, so no explicit arcs at all
     assert _arcs(graph, "assigns.assign@7:10") == set()
@@ -500,3 +504,91 @@ def test_top_chosen_among_several() -> None:
         "buf_stage.a": net(["<port>.a"], ["buf_stage.g.t1"]),
         "buf_stage.y": net(["buf_stage.g.t0"], ["<port>.y"]),
     }
+
+
+def test_indexed_selects_on_ascending_and_offset_ranges() -> None:
+    graph = build("selects.v")
+    s = "selects."
+    assert connectivity(graph) == {
+        # asc[1 +: 2] and asc[2 -: 2] are both asc[1:2]: MSB asc[1], LSB asc[2]
+        f"{s}asc[3]": net(["<port>.asc[3]"]),
+        f"{s}asc[2]": net(["<port>.asc[2]"], ["<port>.u[0]", "<port>.v[0]"], aliases=[f"{s}u[0]", f"{s}v[0]"]),
+        f"{s}asc[1]": net(["<port>.asc[1]"], ["<port>.u[1]", "<port>.v[1]"], aliases=[f"{s}u[1]", f"{s}v[1]"]),
+        f"{s}asc[0]": net(["<port>.asc[0]"], ["<port>.e"], aliases=[f"{s}e"]),
+        # d[9 +: 2] = d[10:9]; w is [0:1], so its MSB w[0] is d[10]
+        f"{s}d[8]": net(["<port>.d[8]"]),
+        f"{s}d[9]": net(["<port>.d[9]"], ["<port>.w[1]"], aliases=[f"{s}w[1]"]),
+        f"{s}d[10]": net(["<port>.d[10]"], ["<port>.w[0]"], aliases=[f"{s}w[0]"]),
+        f"{s}d[11]": net(["<port>.d[11]"], ["<port>.f"], aliases=[f"{s}f"]),
+    }
+    assert graph.cell_count == 0  # every assign here is a pure alias
+
+
+def test_timing_only_cell_model_is_a_black_box() -> None:
+    """Ports plus a specify block: no logic to flatten, so the cell stays, with its pins."""
+    graph = build("timing_cell.v")
+    assert cell_facts(graph, "top.u") == ("DELAY_BUF", CellClass.BLACKBOX, ArcMode.FULL)
+    assert connectivity(graph) == {
+        "top.a": net(["<port>.a"], ["top.u.A"]),
+        "top.y": net(["top.u.Y"], ["<port>.y"]),
+    }
+
+
+def test_parameters_and_signed_literals_as_values() -> None:
+    graph = build("parameter_values.v")
+    p = "parameter_values."
+
+    def tied(name: str, value: str) -> dict[str, list[str]]:
+        return net([f"{p}{name}=1'b{value}.t0"], [f"<port>.{name}"])
+
+    expected = {f"{p}a": net(["<port>.a"], [f"{p}g.t1"]), f"{p}z": net([f"{p}g.t0"], ["<port>.z"])}
+    # y = INIT = 2'b10
+    expected.update({f"{p}y[{i}]": tied(f"y[{i}]", bit) for i, bit in enumerate(reversed("10"))})
+    # k = INIT + 1 = 2 + 1 = 4'b0011 (folded by slang)
+    expected.update({f"{p}k[{i}]": tied(f"k[{i}]", bit) for i, bit in enumerate(reversed("0011"))})
+    # 8'shFD is the bit pattern 1111_1101, negative as a signed number
+    expected.update({f"{p}s[{i}]": tied(f"s[{i}]", bit) for i, bit in enumerate(reversed("11111101"))})
+    assert connectivity(graph) == expected
+    # the localparam on a gate terminal is a constant pin, like a literal there
+    g = cell(graph, f"{p}g")
+    assert [int(graph.pin_net[pin]) for pin in graph.pins_of(g)][2] == CONST1
+    assert graph.diagnostics == []
+
+
+def test_user_defined_primitive_and_switches() -> None:
+    graph = build("switches.v")
+    w = "switches."
+    # a combinational UDP: terminal 0 is the output, the rest inputs (IEEE 1364 section 8)
+    assert cell_facts(graph, f"{w}m") == ("pick", CellClass.GATE, ArcMode.FULL)
+    # tran and rtranif1: both data terminals are inout; the control of rtranif1 an input
+    assert cell_facts(graph, f"{w}t") == ("tran", CellClass.GATE, ArcMode.FULL)
+    assert cell_facts(graph, f"{w}r") == ("rtranif1", CellClass.GATE, ArcMode.FULL)
+    io1 = ["<port>.io1", f"{w}r.t0", f"{w}t.t0"]
+    io2 = ["<port>.io2", f"{w}r.t1", f"{w}t.t1"]
+    assert connectivity(graph) == {
+        f"{w}s": net(["<port>.s"], [f"{w}m.t1"]),
+        f"{w}a": net(["<port>.a"], [f"{w}m.t2"]),
+        f"{w}b": net(["<port>.b"], [f"{w}m.t3"]),
+        f"{w}en": net(["<port>.en"], [f"{w}r.t2"]),
+        f"{w}y": net([f"{w}m.t0"], ["<port>.y"]),
+        f"{w}io1": net(io1, io1),
+        f"{w}io2": net(io2, io2),
+    }
+
+
+def test_unpacked_array_written_through_computed_index() -> None:
+    """``mem[wa] <= d`` may write any of the four elements; the index itself is only read."""
+    graph = build("register_file.v")
+    r = "register_file."
+    process = f"{r}process@4:3"
+    assert cell_facts(graph, process) == ("sequential", CellClass.SEQUENTIAL, ArcMode.NONE)
+    assert connectivity(graph) == {
+        f"{r}clk": net(["<port>.clk"], [f"{process}.clk"]),
+        f"{r}wa[0]": net(["<port>.wa[0]"], [f"{process}.wa[0]"]),
+        f"{r}wa[1]": net(["<port>.wa[1]"], [f"{process}.wa[1]"]),
+        f"{r}d": net(["<port>.d"], [f"{process}.d"]),
+        # q = mem[2] is a pure alias; q, a port declared first, names the net
+        f"{r}q": net([f"{process}.mem[2]"], ["<port>.q"], aliases=[f"{r}mem[2]"]),
+        **{f"{r}mem[{i}]": net([f"{process}.mem[{i}]"]) for i in (0, 1, 3)},
+    }
+    assert graph.diagnostics == []

@@ -135,3 +135,14 @@ def test_edges_cross_hierarchy_like_flat_logic() -> None:
     # multi_top.v + lib_cells.v: in -> s1.g -> mid -> s2.g -> out, across two module copies
     graph = build_design([str(FIXTURES / "lib_cells.v"), str(FIXTURES / "multi_top.v")])
     assert edge_list(graph) == [("chain.in", "chain.mid"), ("chain.mid", "chain.out")]
+
+
+def test_switch_terminals_pass_both_ways() -> None:
+    # switches.v: pick (UDP) s, a, b -> y; tran io1 <-> io2; rtranif1 io1 <-> io2 and en -> both.
+    # The two switches each give io1 -> io2 and io2 -> io1, so those edges appear twice.
+    assert edge_list(build("switches.v")) == sorted([
+        ("switches.s", "switches.y"), ("switches.a", "switches.y"), ("switches.b", "switches.y"),
+        ("switches.io1", "switches.io2"), ("switches.io2", "switches.io1"),
+        ("switches.io1", "switches.io2"), ("switches.io2", "switches.io1"),
+        ("switches.en", "switches.io1"), ("switches.en", "switches.io2"),
+    ])

@@ -105,8 +105,6 @@ def test_output_into_missing_folder_is_bad_input(workdir: Path) -> None:
     assert not target.parent.exists()
 
 
-@pytest.mark.xfail(strict=True, reason="linter/output.py lets IsADirectoryError out of os.replace "
-                                       "(a traceback); not in the front end, reported to the lead")
 def test_output_onto_a_folder_is_bad_input(workdir: Path) -> None:
     (workdir / "taken").mkdir()
     result = inspect(workdir, "--format", "json", "-o", str(workdir / "taken"))
@@ -154,3 +152,21 @@ def test_text_nets_listing(workdir: Path) -> None:
         assert line in lines
     net_lines = [line for line in lines if line.split(":")[0] in HIERARCHY_CONNECTIVITY]
     assert len(net_lines) == len(HIERARCHY_CONNECTIVITY)  # one line per net bit
+
+
+def test_include_folder_and_define_options(tmp_path: Path) -> None:
+    shutil.copytree(FIXTURES / "include", tmp_path / "include")
+    shutil.copy(FIXTURES / "include_define.v", tmp_path / "include_define.v")
+
+    def kinds(*options: str) -> dict[str, int]:
+        result = subprocess.run(
+            [sys.executable, "-m", "linter", "inspect", "include_define.v", "--format", "json", *options],
+            cwd=tmp_path, capture_output=True, text=True, encoding="utf-8", check=False,
+        )
+        assert (result.returncode, result.stderr) == (0, "")
+        summary = json.loads(result.stdout)
+        assert summary["ports"] == {"input": 2, "output": 1, "inout": 0}  # a[`PAIR_WIDTH-1:0] = a[1:0], y
+        return summary["cells_by_kind"]
+
+    assert kinds("-I", "include", "-D", "USE_NAND") == {"nand": 1}
+    assert kinds("-I", "include") == {"nor": 1}

@@ -23,6 +23,7 @@ from linter.checks.finding import Site
 from linter.electrical.family import LogicFamily
 from linter.electrical.margins import dc_load
 from linter.electrical.rail import Rail
+from linter.errors import SourceLocation
 
 # Drivers whose level the electrical rules judge. Constant ties and pulls are no outputs; a pin
 # of unknown direction may not drive at all.
@@ -113,6 +114,8 @@ class NetJoins:
     pull_ups: dict[int, PullUpSummary]  # net -> its pull-ups (only nets that have one with a rail)
     pull_up_rail: np.ndarray  # per net: PullUpSummary.rail, -1 without
     pull_up_ohm: np.ndarray  # per net: PullUpSummary.ohms, 0.0 for an ideal pull-up or none
+    high_driver: np.ndarray  # bool per endpoint: a connected push-pull or tri-state driver
+    judged_driver: np.ndarray  # bool per endpoint: a connected driver of a JUDGED_DRIVE_KINDS kind
 
     def driver_load_pa(self, context: CheckContext, drivers: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """The DC load (source, sink) on each driver endpoint in picoamps, leaving out its own input."""
@@ -157,8 +160,11 @@ def _compute(context: CheckContext) -> NetJoins:
             pull_ups[net] = summary
             pull_up_rail[net] = summary.rail
             pull_up_ohm[net] = summary.ohms or 0.0
+    connected_driver = ep.drives & (ep.net >= 0)
     return NetJoins(family_source, family_sink, load_receiver, net_source, net_sink, pull_ups,
-                    pull_up_rail, pull_up_ohm)
+                    pull_up_rail, pull_up_ohm,
+                    high_driver=connected_driver & np.isin(ep.drive_kind, HIGH_DRIVE_KINDS),
+                    judged_driver=connected_driver & np.isin(ep.drive_kind, JUDGED_DRIVE_KINDS))
 
 
 def _summarize_pull_ups(sources, rail_index: dict[str, int], rails) -> PullUpSummary | None:
@@ -181,6 +187,36 @@ def pull_up_sites(context: CheckContext, net: int) -> tuple[Site, ...]:
 def endpoint_site(context: CheckContext, role: str, endpoint: int) -> Site:
     ep = context.endpoints
     return Site(role, ep.label(endpoint), ep.location(endpoint))
+
+
+class SiteMaker:
+    """Sites of endpoints, each built once per rule run: a driver shared by many findings, or a
+    cell's location used by all its pins, costs one lookup after the first."""
+
+    def __init__(self, context: CheckContext) -> None:
+        self._endpoints = context.endpoints
+        self._sites: dict[tuple[str, int], Site] = {}
+        self._locations: dict[int, SourceLocation] = {}
+
+    def location(self, endpoint: int) -> SourceLocation:
+        ep = self._endpoints
+        cell = int(ep.cell[endpoint])
+        if cell < 0:
+            return ep.location(endpoint)
+        found = self._locations.get(cell)
+        if found is None:
+            found = self._locations[cell] = ep.location(endpoint)
+        return found
+
+    def site(self, role: str, endpoint: int) -> Site:
+        key = (role, endpoint)
+        found = self._sites.get(key)
+        if found is None:
+            found = self._sites[key] = Site(role, self._endpoints.label(endpoint), self.location(endpoint))
+        return found
+
+    def sites(self, role: str, endpoints: np.ndarray) -> tuple[Site, ...]:
+        return tuple(self.site(role, int(e)) for e in endpoints.tolist())
 
 
 def family_table(context: CheckContext) -> list[LogicFamily]:

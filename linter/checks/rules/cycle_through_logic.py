@@ -12,7 +12,7 @@ from scipy.sparse.csgraph import connected_components
 from linter.checks.context import CheckContext
 from linter.checks.finding import Finding, Severity, Site
 from linter.checks.registry import rule
-from linter.netlist.edges import combinational_arcs
+from linter.netlist.edges import marked_combinational_arcs
 
 RULE_ID = "cycle-through-logic"
 
@@ -41,39 +41,67 @@ def cycle_through_logic(context: CheckContext) -> Iterator[Finding]:
     waive it by net or cell with the reason written down.
     """
     graph = context.graph
-    src, dst, cell = combinational_arcs(graph)
+    src, dst, cell, bidirectional = marked_combinational_arcs(graph)
     keep = ~context.annotation.cell_sequential[cell] if cell.size else np.zeros(0, bool)
-    src, dst, cell = src[keep], dst[keep], cell[keep]
+    src, dst, cell, bidirectional = src[keep], dst[keep], cell[keep], bidirectional[keep]
     n = graph.net_count
     if n == 0 or src.size == 0:
         return
-    matrix = csr_matrix((np.ones(src.size, np.int8), (src, dst)), shape=(n, n))
-    _, labels = connected_components(matrix, directed=True, connection="strong")
-    sizes = np.bincount(labels)
-    self_loop = src == dst
-    looped = sizes[labels[src]] > 1
-    interesting = (looped & (labels[src] == labels[dst])) | self_loop
+    # A cell passing levels both ways between two inout pins (a bidirectional translator, a
+    # ``tran`` switch) gives an arc each way; that pair alone is no loop. Its nets count as one
+    # node, so only a path that leaves through some other cell and comes back is a loop.
+    node = _joined_nets(src[bidirectional], dst[bidirectional], n)
+    one_way = ~bidirectional
+    node_src, node_dst = node[src], node[dst]
+    nodes = int(node.max()) + 1
+    matrix = csr_matrix((np.ones(int(one_way.sum()), np.int8), (node_src[one_way], node_dst[one_way])),
+                        shape=(nodes, nodes))
+    _, node_labels = connected_components(matrix, directed=True, connection="strong")
+    labels = node_labels[node]  # the group of every net
+    sizes = np.bincount(labels)  # nets per group
+    nodes_per_group = np.bincount(node_labels)
+    same_group = labels[src] == labels[dst]
+    closes = one_way & ((same_group & (nodes_per_group[labels[src]] > 1)) | (node_src == node_dst))
+    looped_group = np.zeros(sizes.size, bool)
+    looped_group[labels[src[closes]]] = True
+    interesting = closes | (bidirectional & looped_group[labels[src]])
     if not interesting.any():
         return
-    e_src, e_dst, e_cell = src[interesting], dst[interesting], cell[interesting]
+    e_src, e_dst, e_cell, e_two_way = src[interesting], dst[interesting], cell[interesting], bidirectional[interesting]
     e_label = labels[e_src]
     order = np.lexsort((e_cell, e_dst, e_src, e_label))
-    e_src, e_dst, e_cell, e_label = e_src[order], e_dst[order], e_cell[order], e_label[order]
+    e_src, e_dst, e_cell, e_two_way, e_label = (e_src[order], e_dst[order], e_cell[order], e_two_way[order],
+                                                e_label[order])
     boundaries = np.flatnonzero(np.diff(e_label)) + 1
     for start, stop in zip(np.concatenate(([0], boundaries)), np.concatenate((boundaries, [e_src.size]))):
-        yield _finding(context, e_src[start:stop], e_dst[start:stop], e_cell[start:stop],
+        yield _finding(context, e_src[start:stop], e_dst[start:stop], e_cell[start:stop], e_two_way[start:stop],
                        int(sizes[e_label[start]]))
 
 
-def _finding(context: CheckContext, src: np.ndarray, dst: np.ndarray, cells: np.ndarray, size: int) -> Finding:
+def _joined_nets(a: np.ndarray, b: np.ndarray, n: int) -> np.ndarray:
+    """The node of every net: nets joined through bidirectional cells share one, others their own."""
+    if a.size == 0:
+        return np.arange(n, dtype=np.int32)
+    _, node = connected_components(csr_matrix((np.ones(a.size, np.int8), (a, b)), shape=(n, n)), directed=False)
+    return node.astype(np.int32)
+
+
+def _finding(context: CheckContext, src: np.ndarray, dst: np.ndarray, cells: np.ndarray, two_way: np.ndarray,
+             size: int) -> Finding:
     graph = context.graph
     via: dict[tuple[int, int], int] = {}
+    one_way_via: set[tuple[int, int]] = set()
     digraph = nx.DiGraph()
-    for u, v, c in zip(src.tolist(), dst.tolist(), cells.tolist()):
-        via.setdefault((u, v), c)  # arrays are sorted, so the lowest cell id wins
+    for u, v, c, both in zip(src.tolist(), dst.tolist(), cells.tolist(), two_way.tolist()):
+        # arrays are sorted, so the lowest cell id wins, a one-way cell before a bidirectional one
+        if (u, v) not in via or (not both and (u, v) not in one_way_via):
+            via[(u, v)] = c
+        if not both:
+            one_way_via.add((u, v))
         digraph.add_edge(u, v)
-    start = min(digraph.nodes, key=lambda net: graph.net_names[net])
-    cycle = _shortest_cycle(digraph, start)
+    # the cycle starts with a one-way arc, so it cannot be a mere there-and-back through one cell
+    start = min({u for u, _ in one_way_via}, key=lambda net: graph.net_names[net])
+    cycle = _shortest_cycle(digraph, start, sorted(v for u, v in one_way_via if u == start))
     sites = []
     for u, v in zip(cycle, cycle[1:] + cycle[:1]):
         c = via[(u, v)]
@@ -87,17 +115,17 @@ def _finding(context: CheckContext, src: np.ndarray, dst: np.ndarray, cells: np.
                    tuple(sites), {"cycle_nets": len(cycle), "group_nets": size})
 
 
-def _shortest_cycle(digraph: nx.DiGraph, start: int) -> list[int]:
-    """The nets of a shortest cycle through ``start``, beginning there (deterministic)."""
-    if digraph.has_edge(start, start):
+def _shortest_cycle(digraph: nx.DiGraph, start: int, first_hops: list[int]) -> list[int]:
+    """The nets of a shortest cycle through ``start`` leaving by one of ``first_hops`` (deterministic)."""
+    if start in first_hops:
         return [start]
     best: list[int] | None = None
-    for successor in sorted(digraph.successors(start)):
+    for successor in first_hops:
         try:
             back = nx.shortest_path(digraph, successor, start)
         except nx.NetworkXNoPath:
             continue
         if best is None or len(back) < len(best):
             best = back
-    assert best is not None, "a strongly connected group always has a cycle through each member"
+    assert best is not None, "a loop group always has a cycle through each source of a one-way arc in it"
     return [start] + best[:-1]

@@ -10,12 +10,12 @@ from linter.checks.context import CheckContext
 from linter.checks.finding import Finding, Severity, Site
 from linter.checks.registry import rule
 from linter.checks.rules._net_joins import (
-    HIGH_DRIVE_KINDS,
+    SiteMaker,
     combine_keys,
-    endpoint_site,
     family_table,
     format_millivolts,
     format_volts,
+    net_joins,
     pairs_on_same_net,
     rail_table,
 )
@@ -74,7 +74,7 @@ def input_overvoltage(context: CheckContext) -> Iterator[Finding]:
     """
     ep = context.endpoints
     annotation = context.annotation
-    sources = np.flatnonzero(ep.drives & np.isin(ep.drive_kind, HIGH_DRIVE_KINDS) & (ep.net >= 0) & (ep.rail >= 0))
+    sources = np.flatnonzero(net_joins(context).high_driver & (ep.rail >= 0))
     rail_index = {name: i for i, name in enumerate(ep.rail_names)}
     pulled = [(net, rail_index[s.rail]) for net in sorted(annotation.pulls) for s in annotation.pulls[net]
               if s.up and s.rail in rail_index]
@@ -103,38 +103,50 @@ def input_overvoltage(context: CheckContext) -> Iterator[Finding]:
     order = np.lexsort((pair_rail[failing], margin[failing], pair_receiver[failing]))
     failing = failing[order]
     firsts = failing[np.concatenate(([True], np.diff(pair_receiver[failing]) != 0))]
+    flat_situation = situation.reshape(-1)
+    sites = SiteMaker(context)
+    high_driver = net_joins(context).high_driver
+    described: dict[int, tuple[str, str, dict]] = {}
+    net_sources: dict[tuple[int, int], tuple[Site, ...]] = {}
     for pair in firsts.tolist():
-        result = results[int(situation.reshape(-1)[pair])]
-        yield _finding(context, int(pair_receiver[pair]), int(pair_rail[pair]), result)
+        receiver, rail = int(pair_receiver[pair]), int(pair_rail[pair])
+        key = int(flat_situation[pair])
+        if key not in described:
+            described[key] = _describe(context, receiver, rail, results[key])
+        head, tail, data = described[key]
+        net = int(ep.net[receiver])
+        sources = net_sources.get((net, rail))
+        if sources is None:  # receivers on one net share their sources
+            on_net = ep.of_net(net)
+            sources = sites.sites("driver", on_net[high_driver[on_net] & (ep.rail[on_net] == rail)])
+            sources += _pull_up_sites(context, net, ep.rail_names[rail])
+            net_sources[(net, rail)] = sources
+        more = f" and {len(sources) - 1} more" if len(sources) > 1 else ""
+        yield Finding(RULE_ID, Severity.ERROR, f"{head} ({sources[0].name}{more}){tail}", sites.location(receiver),
+                      context.graph.net_names[net], "net", (sites.site("receiver", receiver),) + sources, data)
 
 
-def _finding(context: CheckContext, receiver: int, rail: int, result: tuple[float, float, Corner]) -> Finding:
+def _describe(context: CheckContext, receiver: int, rail: int, result: tuple[float, float, Corner]) -> tuple[str, str, dict]:
+    """The message around the source's name, and the data: the same for every receiver in one situation."""
     ep = context.endpoints
     margin, limit, corner = result
-    net = int(ep.net[receiver])
     rail_name = ep.rail_names[rail]
-    sites = _source_sites(context, net, rail, rail_name)
     excess_mv = round(-margin * 1000.0, 6)
     family, receiver_rail = ep.family_of(receiver), ep.rail_of(receiver)
-    more = f" and {len(sites) - 1} more" if len(sites) > 1 else ""
-    message = (f"{family} input on {receiver_rail} survives at most {format_volts(limit)} "
-               f"(at {format_volts(corner.receiver_v)}) but the net reaches {format_volts(corner.driver_v)} "
-               f"from {rail_name} ({sites[0].name}{more}): {format_millivolts(excess_mv)} over the limit")
+    head = (f"{family} input on {receiver_rail} survives at most {format_volts(limit)} "
+            f"(with its rail at {format_volts(corner.receiver_v)}) but the net reaches "
+            f"{format_volts(corner.driver_v)} from {rail_name}")
+    tail = f": {format_millivolts(excess_mv)} over the limit"
     data = {
         "net_max_v": corner.driver_v, "input_max": limit, "excess_mv": excess_mv,
         "source_rail": rail_name, "source_rail_v": corner.driver_v, "receiver_rail_v": corner.receiver_v,
         "receiver_family": family, "receiver_rail": receiver_rail,
     }
-    return Finding(RULE_ID, Severity.ERROR, message, ep.location(receiver), context.graph.net_names[net], "net",
-                   (endpoint_site(context, "receiver", receiver),) + sites, data)
+    return head, tail, data
 
 
-def _source_sites(context: CheckContext, net: int, rail: int, rail_name: str) -> tuple[Site, ...]:
-    """Every driver and pull-up on ``net`` that reaches ``rail``: the ones setting its top voltage."""
-    ep = context.endpoints
-    drivers = tuple(endpoint_site(context, "driver", int(e)) for e in ep.of_net(net)
-                    if ep.drives[e] and ep.drive_kind[e] in HIGH_DRIVE_KINDS and ep.rail[e] == rail)
+def _pull_up_sites(context: CheckContext, net: int, rail_name: str) -> tuple[Site, ...]:
+    """The pull-ups on ``net`` to ``rail_name``: with the drivers, what sets the net's top voltage."""
     where = context.net_location(net)
-    pulls = tuple(Site("pull-up", s.name, s.location or where)
-                  for s in context.annotation.pulls.get(net, ()) if s.up and s.rail == rail_name)
-    return drivers + pulls
+    return tuple(Site("pull-up", s.name, s.location or where)
+                 for s in context.annotation.pulls.get(net, ()) if s.up and s.rail == rail_name)

@@ -22,8 +22,8 @@ from linter.checks.registry import rule
 from linter.checks.rules._net_joins import (
     JUDGED_DRIVE_KINDS,
     PICOAMPS_PER_AMP,
+    SiteMaker,
     combine_keys,
-    endpoint_site,
     family_table,
     format_millivolts,
     format_volts,
@@ -202,14 +202,31 @@ def _findings(context: CheckContext, low: bool) -> Iterator[Finding]:
     judged = np.ones(margin.shape[0], bool) if low else found.high_judged
     with np.errstate(invalid="ignore"):
         failing = judged & ((margin < 0) | (margin < found.required_v))
+    ep = context.endpoints
+    sites = SiteMaker(context)
+    net_names = context.graph.net_names
+    # the message and data depend only on the situation and the requirement: build each once
+    # (findings of one situation share their read-only data dict)
+    described: dict[tuple[int, float], tuple[str, Severity, dict]] = {}
     for pair in np.flatnonzero(failing).tolist():
-        yield _finding(context, found, pair, low)
+        net, driver, receiver = int(found.net[pair]), int(found.driver[pair]), int(found.receiver[pair])
+        required = float(found.required_v[pair])
+        key = (int(found.situation[pair]), required)
+        if key not in described:
+            described[key] = _describe(context, found, pair, low)
+        message, severity, data = described[key]
+        pair_sites = (sites.site("driver", driver), sites.site("receiver", receiver))
+        if found.open_drain[pair] and found.high_judged[pair]:
+            pair_sites += pull_up_sites(context, net)
+        yield Finding(LOW_RULE if low else HIGH_RULE, severity, message, sites.location(receiver),
+                      net_names[net], "net", pair_sites, data)
 
 
-def _finding(context: CheckContext, found: Crossings, pair: int, low: bool) -> Finding:
+def _describe(context: CheckContext, found: Crossings, pair: int, low: bool) -> tuple[str, Severity, dict]:
+    """The message, severity and data of a failing pair: the same for every pair in its situation."""
     ep = context.endpoints
     m = found.margins[int(found.situation[pair])]
-    net, driver, receiver = int(found.net[pair]), int(found.driver[pair]), int(found.receiver[pair])
+    driver, receiver = int(found.driver[pair]), int(found.receiver[pair])
     driver_rail = ep.rail_names[int(found.driver_rail[pair])]
     driver_family, receiver_family = ep.family_names[int(ep.family[driver])], ep.family_of(receiver)
     receiver_rail = ep.rail_of(receiver)
@@ -238,9 +255,6 @@ def _finding(context: CheckContext, found: Crossings, pair: int, low: bool) -> F
                f"{'low' if low else 'high'} margin {format_millivolts(nm_mv)}{short} "
                f"({out_name} {format_volts(out_v)} at {format_volts(corner.driver_v)}, "
                f"{in_name} {format_volts(in_v)} at {format_volts(corner.receiver_v)})")
-    sites = (endpoint_site(context, "driver", driver), endpoint_site(context, "receiver", receiver))
-    if pulled:
-        sites += pull_up_sites(context, net)
     data = {
         "nm_mv": nm_mv, "required_mv": required_mv,
         "driver_family": driver_family, "driver_rail": driver_rail,
@@ -248,5 +262,4 @@ def _finding(context: CheckContext, found: Crossings, pair: int, low: bool) -> F
         "driver_rail_v": corner.driver_v, "receiver_rail_v": corner.receiver_v,
         "load_a": load_a, "overloaded": overloaded, "pullup_ohm": ohms, **levels,
     }
-    return Finding(LOW_RULE if low else HIGH_RULE, Severity.ERROR if error else Severity.WARNING, message,
-                   ep.location(receiver), context.graph.net_names[net], "net", sites, data)
+    return message, Severity.ERROR if error else Severity.WARNING, data

@@ -10,7 +10,7 @@ import numpy as np
 from linter.checks.context import CheckContext
 from linter.checks.finding import Finding, Severity, Site
 from linter.checks.registry import rule
-from linter.checks.rules._net_joins import HIGH_DRIVE_KINDS, JUDGED_DRIVE_KINDS, endpoint_site, family_table
+from linter.checks.rules._net_joins import SiteMaker, family_table, net_joins
 from linter.electrical.power import PowerState
 
 FED_RULE = "input-fed-while-unpowered"
@@ -36,9 +36,8 @@ def _state_nets(context: CheckContext) -> list[_StateNets]:
     ep = context.endpoints
     annotation = context.annotation
     count = context.graph.net_count
-    connected = ep.net >= 0
     known = ep.rail >= 0
-    high_drivers = ep.drives & np.isin(ep.drive_kind, HIGH_DRIVE_KINDS) & connected
+    high_drivers = net_joins(context).high_driver
     rail_index = {name: i for i, name in enumerate(ep.rail_names)}
     pull_pairs = [(net, rail_index[s.rail]) for net in sorted(annotation.pulls) for s in annotation.pulls[net]
                   if s.up and s.rail in rail_index]
@@ -89,33 +88,50 @@ def input_fed_while_unpowered(context: CheckContext) -> Iterator[Finding]:
     families = family_table(context)
     protected = np.array([f.inputs_protected_unpowered for f in families] + [True])
     candidates = ep.receives & (ep.net >= 0) & (ep.family >= 0) & ~protected[ep.family]
+    high_driver = net_joins(context).high_driver
+    sites = SiteMaker(context)
     for nets in _state_nets(context):
         fed = candidates & nets.off
         fed[fed] = nets.live_sources[ep.net[fed]] > 0
+        described: dict[tuple, tuple[str, dict]] = {}
+        net_sources: dict[int, tuple[tuple[Site, ...], tuple[str, ...]]] = {}
         for receiver in np.flatnonzero(fed).tolist():
-            yield _fed_finding(context, nets, receiver)
+            net = int(ep.net[receiver])
+            if net not in net_sources:  # receivers on one net share their sources
+                net_sources[net] = _live_sources(context, nets, net, high_driver, sites)
+            source_sites, source_rails = net_sources[net]
+            key = (int(ep.family[receiver]), int(ep.rail[receiver]), source_rails, len(source_sites))
+            if key not in described:
+                described[key] = _fed_text(context, nets.state, receiver, source_rails, key[3])
+            message, data = described[key]
+            yield Finding(FED_RULE, Severity.ERROR, message, sites.location(receiver), context.graph.net_names[net],
+                          "net", (sites.site("receiver", receiver),) + source_sites, data)
 
 
-def _fed_finding(context: CheckContext, nets: _StateNets, receiver: int) -> Finding:
+def _live_sources(context: CheckContext, nets: _StateNets, net: int, high_driver: np.ndarray,
+                  sites: SiteMaker) -> tuple[tuple[Site, ...], tuple[str, ...]]:
+    """The drivers and pull-ups on live rails that feed ``net``, and those rails' names."""
     ep = context.endpoints
-    net = int(ep.net[receiver])
+    on_net = ep.of_net(net)
+    drivers = on_net[high_driver[on_net] & nets.on[on_net]]
     state = nets.state
-    drivers = [int(e) for e in ep.of_net(net)
-               if ep.drives[e] and ep.drive_kind[e] in HIGH_DRIVE_KINDS and nets.on[e]]
+    pulls = [s for s in context.annotation.pulls.get(net, ())
+             if s.up and s.rail is not None and s.rail in state.rail_on and state.is_on(s.rail)]
     where = context.net_location(net)
-    pulls = [s for s in context.annotation.pulls.get(net, ()) if s.up and s.rail is not None
-             and s.rail in state.rail_on and state.is_on(s.rail)]
-    source_rails = sorted({ep.rail_of(e) for e in drivers} | {s.rail for s in pulls})
+    found = sites.sites("driver", drivers) + tuple(Site("pull-up", s.name, s.location or where) for s in pulls)
+    rails = tuple(sorted({ep.rail_names[r] for r in ep.rail[drivers].tolist()} | {s.rail for s in pulls}))
+    return found, rails
+
+
+def _fed_text(context: CheckContext, state: PowerState, receiver: int, source_rails: tuple[str, ...],
+              sources: int) -> tuple[str, dict]:
+    ep = context.endpoints
     rail, family = ep.rail_of(receiver), ep.family_of(receiver)
     message = (f"in power state '{state.name}' rail {rail} is off but this {family} input is fed from "
                f"{', '.join(source_rails)} (on): current through its input clamp can back-power {rail}")
-    sites = ((endpoint_site(context, "receiver", receiver),)
-             + tuple(endpoint_site(context, "driver", e) for e in drivers)
-             + tuple(Site("pull-up", s.name, s.location or where) for s in pulls))
     data = {"state": state.name, "receiver_family": family, "receiver_rail": rail,
-            "source_rails": source_rails, "sources": len(drivers) + len(pulls)}
-    return Finding(FED_RULE, Severity.ERROR, message, ep.location(receiver), context.graph.net_names[net], "net",
-                   sites, data)
+            "source_rails": list(source_rails), "sources": sources}
+    return message, data
 
 
 @rule(UNPOWERED_DRIVER_RULE, Severity.WARNING)
@@ -147,28 +163,37 @@ def driver_unpowered(context: CheckContext) -> Iterator[Finding]:
     pulled_down = np.zeros(context.graph.net_count, bool)
     for net, sources in context.annotation.pulls.items():
         pulled_down[net] = any(not s.up for s in sources)
-    candidates = ep.drives & np.isin(ep.drive_kind, JUDGED_DRIVE_KINDS) & (ep.net >= 0)
+    candidates = net_joins(context).judged_driver
+    sites = SiteMaker(context)
     for nets in _state_nets(context):
         floating = candidates & nets.off
         net_of = ep.net[floating]
         floating[floating] = (nets.live_receivers[net_of] > 0) & (nets.live_sources[net_of] == 0) & ~pulled_down[net_of]
+        described: dict[tuple, tuple[str, dict]] = {}
         for driver in np.flatnonzero(floating).tolist():
-            yield _unpowered_finding(context, nets, driver)
+            net = int(ep.net[driver])
+            on_net = ep.of_net(net)
+            receivers = on_net[ep.receives[on_net] & nets.on[on_net]]
+            receiver_rails = tuple(sorted({ep.rail_names[r] for r in ep.rail[receivers].tolist()}))
+            key = (int(ep.family[driver]), int(ep.rail[driver]), receiver_rails, len(receivers))
+            if key not in described:
+                described[key] = _unpowered_text(context, nets.state, driver, receiver_rails, len(receivers))
+            message, data = described[key]
+            yield Finding(UNPOWERED_DRIVER_RULE, Severity.WARNING, message, sites.location(driver),
+                          context.graph.net_names[net], "net",
+                          (sites.site("driver", driver),) + sites.sites("receiver", receivers), data)
 
 
-def _unpowered_finding(context: CheckContext, nets: _StateNets, driver: int) -> Finding:
+def _unpowered_text(context: CheckContext, state: PowerState, driver: int, receiver_rails: tuple[str, ...],
+                    receivers: int) -> tuple[str, dict]:
     ep = context.endpoints
-    net = int(ep.net[driver])
-    state = nets.state
-    receivers = [int(e) for e in ep.of_net(net) if ep.receives[e] and nets.on[e]]
-    receiver_rails = sorted({ep.rail_of(e) for e in receivers})
     rail = ep.rail_of(driver)
-    count = f"{len(receivers)} input{'s' if len(receivers) != 1 else ''}"
-    message = (f"in power state '{state.name}' rail {rail} is off, so this driver holds no level, but {count} "
-               f"on {', '.join(receiver_rails)} (on) read the net: they float")
-    sites = (endpoint_site(context, "driver", driver),) + tuple(
-        endpoint_site(context, "receiver", e) for e in receivers)
+    if receivers == 1:
+        readers, verb, pronoun = "1 input", "reads", "it floats"
+    else:
+        readers, verb, pronoun = f"{receivers} inputs", "read", "they float"
+    message = (f"in power state '{state.name}' rail {rail} is off, so this driver holds no level, but {readers} "
+               f"on {', '.join(receiver_rails)} (on) {verb} the net: {pronoun}")
     data = {"state": state.name, "driver_family": ep.family_of(driver), "driver_rail": rail,
-            "live_receivers": len(receivers), "receiver_rails": receiver_rails}
-    return Finding(UNPOWERED_DRIVER_RULE, Severity.WARNING, message, ep.location(driver),
-                   context.graph.net_names[net], "net", sites, data)
+            "live_receivers": receivers, "receiver_rails": list(receiver_rails)}
+    return message, data
