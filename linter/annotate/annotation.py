@@ -118,12 +118,14 @@ def annotate(graph: DesignGraph, design: Design) -> Annotation:
         pin_kind[od] = DriveKind.OPEN_DRAIN
 
     kinds = graph.cell_kinds
-    for c in range(graph.cell_count):
+    special_kinds = _TRI_STATE_GATES | _PULL_GATES.keys()
+    is_tie = graph.cell_class == CellClass.TIE
+    special = {c for c, kind in enumerate(kinds) if kind in special_kinds}
+    special.update(np.flatnonzero(is_tie).tolist())
+    special.update(c for c, assignment in enumerate(cells) if assignment.part is not None)
+    for c in sorted(special):  # few cells need more than their cell's family and rail
         kind = kinds[c]
         assignment = cells[c]
-        special = kind in _TRI_STATE_GATES or kind in _PULL_GATES or graph.cell_class[c] == CellClass.TIE
-        if not special and assignment.part is None:
-            continue
         pins = graph.pins_of(c)
         if kind in _TRI_STATE_GATES:
             for p in pins:
@@ -134,7 +136,7 @@ def annotate(graph: DesignGraph, design: Design) -> Annotation:
                 pin_kind[p] = DriveKind.PULL
                 _add_pull(pulls, graph, int(graph.pin_net[p]), PullSource(
                     graph.cell_names[c], _PULL_GATES[kind], assignment.rail, None, graph.cell_location(c)))
-        elif graph.cell_class[c] == CellClass.TIE:
+        elif is_tie[c]:
             for p in pins:
                 if kind == "tiez":
                     drives[p] = False

@@ -30,7 +30,8 @@ def run(args: argparse.Namespace) -> int:
     from linter.cli import CAUTION
     from linter.electrical.design_file import load_design
     from linter.output import write_atomic
-    from linter.pipeline import annotate_design, assignment_coverage, check_annotation
+    from linter.checks.rules.family_unassigned import assignment_coverage
+    from linter.pipeline import annotate_design, check_annotation
     from linter.review.dot import render_dot
     from linter.review.figures import figure_files, render_figures
     from linter.review.html import render_html

@@ -127,6 +127,8 @@ class Problem:
     items: dict[PackKey, tuple[Item, ...]]  # the packages each key may use, by name order
     replaceable: dict[int, Replaceable] = field(default_factory=dict)
     region: RehomeRegion | None = None
+    replacement_covers: dict[int, int] = field(default_factory=dict)  # unit -> cell (as-is modes only)
+    replacement_rejected: dict[int, str] = field(default_factory=dict)  # cell -> why not offered
 
     def item(self, key: PackKey, name: str) -> Item:
         for candidate in self.items[key]:

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 from linter.report.model import format_volts
 from linter.review.data import FAIL, OK, THIN, CrossingMap, MapEdge
+from linter.review.units import counted
 from linter.review.palette import VERDICT_COLOUR
 
 _EDGE_STYLE = {FAIL: ("dashed", 2.4), THIN: ("dotted", 1.8), OK: ("solid", 1.2)}
@@ -39,13 +40,13 @@ def render_dot(crossing_map: CrossingMap, design: str) -> str:
         lines.append('    style="rounded,filled"; fillcolor="#f2f2f2"; color="#555555";')
         for node in group.nodes:
             inside = f", {node.internal_crossings} within" if node.internal_crossings else ""
-            label = quote(f"{node.family}\n{node.endpoints} endpoints{inside}")
+            label = quote(f"{node.family}\n{counted(node.endpoints, 'endpoint')}{inside}")
             lines.append(f"    {node.key} [label={label}];")
         lines.append("  }")
     for edge in crossing_map.edges:
         verdict = _verdict(edge)
         style, width = _EDGE_STYLE[verdict]
-        label = f"{edge.crossings} crossing{'s' if edge.crossings != 1 else ''}"
+        label = counted(edge.crossings, "crossing")
         if edge.failing:
             label += f"\n{edge.failing} FAIL"
         if edge.thin:

@@ -15,9 +15,10 @@ from matplotlib.patches import FancyArrowPatch, FancyBboxPatch
 from linter.report.model import format_volts
 from linter.review.data import FAIL, OK, THIN, CrossingMap, MapEdge
 from linter.review.figure_output import new_figure, review_style
+from linter.review.units import counted
 from linter.review.palette import VERDICT_COLOUR, VERDICT_STYLE
 
-COLUMN_STEP = 7.0
+COLUMN_STEP = 5.4
 NODE_WIDTH, NODE_HEIGHT, ROW_STEP = 2.3, 0.75, 1.6
 ACROSS_RAD, WITHIN_RAD = 0.22, -0.9  # arc3 bends: between columns, and out to the side within one
 GROUP_PAD = 0.35
@@ -52,8 +53,8 @@ def draw_crossing_map(crossing_map: CrossingMap) -> Figure:
                                      linewidth=0.9, gid=node.key, zorder=3)
                 axes.add_patch(box)
                 inside = f", {node.internal_crossings} within" if node.internal_crossings else ""
-                axes.text(x, y, f"{node.family}\n{node.endpoints} endpoints{inside}", ha="center", va="center",
-                          fontsize=7.5, zorder=4)
+                label = f"{node.family}\n{counted(node.endpoints, 'endpoint')}{inside}"
+                axes.text(x, y, label, ha="center", va="center", fontsize=7.5, zorder=4)
                 boxes[node.key], centres[node.key] = box, (x, y)
         for edge in crossing_map.edges:
             _arrow(axes, edge, boxes, centres)
@@ -90,7 +91,7 @@ def _arrow(axes, edge: MapEdge, boxes: dict, centres: dict) -> None:
     # the middle of matplotlib's arc3 curve: halfway along the chord, pushed out by rad / 2
     mid_x = (x1 + x2) / 2 + rad * (y2 - y1) / 2
     mid_y = (y1 + y2) / 2 - rad * (x2 - x1) / 2
-    lines = [f"{edge.crossings} crossing{'s' if edge.crossings != 1 else ''}"]
+    lines = [counted(edge.crossings, "crossing")]
     if edge.failing:
         lines.append(f"{edge.failing} FAIL")
     if edge.thin:

@@ -18,13 +18,17 @@ from linter.review.figure_output import new_figure, review_style
 from linter.review.palette import MARGIN_COLOURMAP
 from linter.review.units import format_margin
 
+CELL_WIDTH_IN, CELL_HEIGHT_IN = 1.2, 0.95
+LEFT_IN, RIGHT_IN, BOTTOM_IN, TOP_IN = 1.45, 1.0, 1.0, 0.15
+
 
 def draw_family_matrix(matrix: FamilyMatrix) -> tuple[Figure, Axes]:
     size = len(matrix.families)
     with review_style():
-        figure = new_figure(2.4 + 1.45 * size, 1.7 + 0.95 * size)
-        axes = figure.add_axes((1.75 / (2.4 + 1.45 * size), 1.0 / (1.7 + 0.95 * size),
-                                1.45 * size / (2.4 + 1.45 * size), 0.95 * size / (1.7 + 0.95 * size)))
+        width, height = LEFT_IN + RIGHT_IN + CELL_WIDTH_IN * size, BOTTOM_IN + TOP_IN + CELL_HEIGHT_IN * size
+        figure = new_figure(width, height)
+        axes = figure.add_axes((LEFT_IN / width, BOTTOM_IN / height, CELL_WIDTH_IN * size / width,
+                                CELL_HEIGHT_IN * size / height))
         values = [[entry.smaller_mv for entry in row] for row in matrix.rows]
         flat = [v for row in values for v in row]
         norm = TwoSlopeNorm(vcenter=0.0, vmin=min(min(flat), -1.0), vmax=max(max(flat), 1.0))
@@ -46,7 +50,7 @@ def _cell(axes: Axes, row: int, column: int, entry: MatrixEntry, colour: tuple[f
     lines = [f"L {format_margin(entry.nm_low_mv)}"]
     if entry.nm_high_mv is not None:
         lines.append(f"H {format_margin(entry.nm_high_mv)}")
-    lines.append("FAIL " + ", ".join(entry.failures) if entry.failures else "pass")
+    lines += ["FAIL", ", ".join(entry.failures)] if entry.failures else ["pass"]
     if entry.crossings_in_design:
         lines.append(f"{entry.crossings_in_design} in design")
     red, green, blue = colour[:3]

@@ -18,3 +18,8 @@ def format_millivolts(millivolts: float) -> str:
 def slug(text: str) -> str:
     """``text`` reduced to letters, digits, dot, dash and underscore, for file names."""
     return "".join(c if c.isalnum() or c in "._-" else "_" for c in text).strip("_") or "net"
+
+
+def counted(number: int, noun: str) -> str:
+    """``1 crossing``, ``4 crossings``."""
+    return f"{number} {noun}{'s' if number != 1 else ''}"

@@ -17,9 +17,9 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-import linter.checks.rules.level_margins as level_margins
 from linter.checks.context import CheckContext
 from linter.checks.finding import Severity
+from linter.checks.rules import level_margins
 from linter.checks.rules._net_joins import pairs_on_same_net
 from linter.electrical.design_file import load_design
 from linter.pipeline import annotate_design, check_annotation

@@ -3,8 +3,8 @@
 from __future__ import annotations
 
 from collections.abc import Iterator
+from typing import TYPE_CHECKING
 
-import networkx as nx
 import numpy as np
 from scipy.sparse import csr_matrix
 from scipy.sparse.csgraph import connected_components
@@ -13,6 +13,9 @@ from linter.checks.context import CheckContext
 from linter.checks.finding import Finding, Severity, Site
 from linter.checks.registry import rule
 from linter.netlist.edges import marked_combinational_arcs
+
+if TYPE_CHECKING:
+    import networkx as nx
 
 RULE_ID = "cycle-through-logic"
 
@@ -88,6 +91,8 @@ def _joined_nets(a: np.ndarray, b: np.ndarray, n: int) -> np.ndarray:
 
 def _finding(context: CheckContext, src: np.ndarray, dst: np.ndarray, cells: np.ndarray, two_way: np.ndarray,
              size: int) -> Finding:
+    import networkx as nx  # only when there is a loop to spell out: it is slow to import
+
     graph = context.graph
     via: dict[tuple[int, int], int] = {}
     one_way_via: set[tuple[int, int]] = set()
@@ -117,6 +122,7 @@ def _finding(context: CheckContext, src: np.ndarray, dst: np.ndarray, cells: np.
 
 def _shortest_cycle(digraph: nx.DiGraph, start: int, first_hops: list[int]) -> list[int]:
     """The nets of a shortest cycle through ``start`` leaving by one of ``first_hops`` (deterministic)."""
+    import networkx as nx
     if start in first_hops:
         return [start]
     best: list[int] | None = None

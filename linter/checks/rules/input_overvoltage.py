@@ -74,12 +74,12 @@ def input_overvoltage(context: CheckContext) -> Iterator[Finding]:
     """
     ep = context.endpoints
     annotation = context.annotation
-    sources = np.flatnonzero(net_joins(context).high_driver & (ep.rail >= 0))
+    driving = np.flatnonzero(net_joins(context).high_driver & (ep.rail >= 0))
     rail_index = {name: i for i, name in enumerate(ep.rail_names)}
     pulled = [(net, rail_index[s.rail]) for net in sorted(annotation.pulls) for s in annotation.pulls[net]
               if s.up and s.rail in rail_index]
-    source_net = np.concatenate((ep.net[sources], np.array([n for n, _ in pulled], np.int64))).astype(np.int64)
-    source_rail = np.concatenate((ep.rail[sources], np.array([r for _, r in pulled], np.int64))).astype(np.int64)
+    source_net = np.concatenate((ep.net[driving], np.array([n for n, _ in pulled], np.int64))).astype(np.int64)
+    source_rail = np.concatenate((ep.rail[driving], np.array([r for _, r in pulled], np.int64))).astype(np.int64)
     if source_net.size == 0:
         return
     unique_sources = np.unique(combine_keys(source_net, source_rail), return_index=True)[1]
@@ -90,8 +90,8 @@ def input_overvoltage(context: CheckContext) -> Iterator[Finding]:
         return
     pair_receiver = receivers[right]
     pair_rail = source_rail[left]
-    key = combine_keys(pair_rail, ep.family[pair_receiver], ep.rail[pair_receiver])
-    _, first, situation = np.unique(key, return_index=True, return_inverse=True)
+    situation_key = combine_keys(pair_rail, ep.family[pair_receiver], ep.rail[pair_receiver])
+    _, first, situation = np.unique(situation_key, return_index=True, return_inverse=True)
     families, rails = family_table(context), rail_table(context)
     results = [worst_input_excess(rails[int(pair_rail[p])], families[int(ep.family[pair_receiver[p]])],
                                   rails[int(ep.rail[pair_receiver[p]])]) for p in first.tolist()]

@@ -10,6 +10,7 @@ that situation, so a million-cell design costs a few numpy passes and a few doze
 
 from __future__ import annotations
 
+import math
 from collections.abc import Iterator
 from dataclasses import dataclass
 
@@ -17,7 +18,7 @@ import numpy as np
 
 from linter.annotate import DriveKind
 from linter.checks.context import CheckContext
-from linter.checks.finding import Finding, Severity
+from linter.checks.finding import Finding, Severity, Site
 from linter.checks.registry import rule
 from linter.checks.rules._net_joins import (
     JUDGED_DRIVE_KINDS,
@@ -128,12 +129,13 @@ def _required_margins(context: CheckContext, found: Crossings, rails: list) -> n
                        np.where(found.high_judged, found.nm_high_v[found.situation], np.inf))
     required = np.full(found.net.shape[0], np.nan)
     candidates = np.flatnonzero(worst < bound[found.driver_rail])
-    looked_up: dict[tuple[int, int], float] = {}
-    for pair in candidates.tolist():
-        key = (int(found.net[pair]), int(found.driver_rail[pair]))
-        if key not in looked_up:
-            looked_up[key] = context.annotation.noise_margin(key[0]).required_v(float(swing[key[1]]))
-        required[pair] = looked_up[key]
+    if candidates.size == 0:
+        return required
+    keys = np.stack((found.net[candidates], found.driver_rail[candidates]), axis=1).astype(np.int64)
+    distinct, inverse = np.unique(keys, axis=0, return_inverse=True)
+    resolve = context.annotation.noise_margin
+    values = np.array([resolve(net).required_v(float(swing[rail])) for net, rail in distinct.tolist()], float)
+    required[candidates] = values[inverse.reshape(-1)]
     return required
 
 
@@ -202,7 +204,6 @@ def _findings(context: CheckContext, low: bool) -> Iterator[Finding]:
     judged = np.ones(margin.shape[0], bool) if low else found.high_judged
     with np.errstate(invalid="ignore"):
         failing = judged & ((margin < 0) | (margin < found.required_v))
-    ep = context.endpoints
     sites = SiteMaker(context)
     net_names = context.graph.net_names
     # the message and data depend only on the situation and the requirement: build each once
@@ -215,7 +216,7 @@ def _findings(context: CheckContext, low: bool) -> Iterator[Finding]:
         if key not in described:
             described[key] = _describe(context, found, pair, low)
         message, severity, data = described[key]
-        pair_sites = (sites.site("driver", driver), sites.site("receiver", receiver))
+        pair_sites: tuple[Site, ...] = (sites.site("driver", driver), sites.site("receiver", receiver))
         if found.open_drain[pair] and found.high_judged[pair]:
             pair_sites += pull_up_sites(context, net)
         yield Finding(LOW_RULE if low else HIGH_RULE, severity, message, sites.location(receiver),
@@ -231,7 +232,7 @@ def _describe(context: CheckContext, found: Crossings, pair: int, low: bool) -> 
     driver_family, receiver_family = ep.family_names[int(ep.family[driver])], ep.family_of(receiver)
     receiver_rail = ep.rail_of(receiver)
     required = float(found.required_v[pair])
-    required_mv = round(required * 1000.0, 6) if required == required else None
+    required_mv = None if math.isnan(required) else round(required * 1000.0, 6)
     nm_v, nm_mv = (m.nm_low_v, m.nm_low_mv) if low else (m.nm_high_v, m.nm_high_mv)
     corner = m.low_corner if low else m.high_corner
     if low:

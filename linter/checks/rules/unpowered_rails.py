@@ -119,7 +119,8 @@ def _live_sources(context: CheckContext, nets: _StateNets, net: int, high_driver
              if s.up and s.rail is not None and s.rail in state.rail_on and state.is_on(s.rail)]
     where = context.net_location(net)
     found = sites.sites("driver", drivers) + tuple(Site("pull-up", s.name, s.location or where) for s in pulls)
-    rails = tuple(sorted({ep.rail_names[r] for r in ep.rail[drivers].tolist()} | {s.rail for s in pulls}))
+    rails = tuple(sorted({ep.rail_names[r] for r in ep.rail[drivers].tolist()}
+                         | {s.rail for s in pulls if s.rail is not None}))
     return found, rails
 
 
