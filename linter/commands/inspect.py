@@ -76,7 +76,8 @@ def render_text(summary: dict) -> str:
         for name, net in summary.get("nets", {}).items():
             drivers = ", ".join(net["drivers"]) or "no driver"
             receivers = ", ".join(net["receivers"]) or "no receiver"
-            console.print(f"{name}: {drivers} -> {receivers}", markup=False, soft_wrap=True)
+            unknown = f" (direction unknown: {', '.join(net['unknown'])})" if net["unknown"] else ""
+            console.print(f"{name}: {drivers} -> {receivers}{unknown}", markup=False, soft_wrap=True)
         for warning in summary["warnings"]:
             console.print(warning, markup=False, soft_wrap=True)
     return capture.get()

@@ -31,6 +31,9 @@ PNG_DPI = 144
 
 _PROLOGUE = re.compile(r"\A.*?(?=<svg\b)", re.S)
 _METADATA = re.compile(r"\s*<metadata>.*?</metadata>", re.S)
+# matplotlib's one style rule (round joins, butt caps) uses a bare ``*`` selector, which inline
+# would reach the whole page; the page's style sheet carries it scoped to SVG instead.
+_STYLE = re.compile(r'\s*<style type="text/css">[^<]*</style>')
 _ID = re.compile(r'\bid="([^"]+)"')
 _REFERENCE = re.compile(r'(url\(#|href="#)([^")]+)')
 _NAMESPACES = re.compile(r'\s+xmlns(?::xlink)?="[^"]*"')
@@ -65,7 +68,7 @@ def png_bytes(figure: Figure) -> bytes:
 
 def inline_svg(svg: str, prefix: str, label: str) -> str:
     """``svg`` ready to sit inside HTML: no prologue, ids prefixed, an accessible name."""
-    body = _METADATA.sub("", _PROLOGUE.sub("", svg, count=1))
+    body = _STYLE.sub("", _METADATA.sub("", _PROLOGUE.sub("", svg, count=1)))
     body = _ID.sub(lambda m: f'id="{prefix}-{m.group(1)}"', body)
     body = _REFERENCE.sub(lambda m: f"{m.group(1)}{prefix}-{m.group(2)}", body)
     head, rest = body.split(">", 1)

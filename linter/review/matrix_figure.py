@@ -32,7 +32,11 @@ def draw_family_matrix(matrix: FamilyMatrix) -> tuple[Figure, Axes]:
         values = [[entry.smaller_mv for entry in row] for row in matrix.rows]
         flat = [v for row in values for v in row]
         norm = TwoSlopeNorm(vcenter=0.0, vmin=min(min(flat), -1.0), vmax=max(max(flat), 1.0))
-        image = axes.imshow(values, cmap=MARGIN_COLOURMAP, norm=norm, aspect="auto")
+        # a mesh of vector cells (imshow would embed a bitmap in the SVG)
+        image = axes.pcolormesh([c - 0.5 for c in range(size + 1)], [r - 0.5 for r in range(size + 1)], values,
+                                cmap=MARGIN_COLOURMAP, norm=norm, edgecolors="white", linewidth=1.0)
+        axes.set_xlim(-0.5, size - 0.5)
+        axes.set_ylim(size - 0.5, -0.5)  # first driver at the top, as in a table
         for r, row in enumerate(matrix.rows):
             for c, entry in enumerate(row):
                 _cell(axes, r, c, entry, image.cmap(norm(entry.smaller_mv)))
@@ -43,6 +47,7 @@ def draw_family_matrix(matrix: FamilyMatrix) -> tuple[Figure, Axes]:
         axes.tick_params(length=0)
         colourbar = figure.colorbar(image, ax=axes, fraction=0.05, pad=0.03)
         colourbar.set_label("smaller noise margin, mV (dark: failing)")
+        colourbar.solids.set_rasterized(False)  # a long colour bar is a bitmap by default; keep it vector
     return figure, axes
 
 

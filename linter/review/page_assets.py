@@ -41,6 +41,7 @@ tr.verdict-thin td.verdict { color: #8a3f6b; font-weight: bold; }
 figure.level-diagram { margin: 1.2rem 0 2rem; padding: 0.6rem 0.8rem; border: 1px solid var(--rule); }
 figure.level-diagram:target { outline: 3px solid var(--ok); }
 figure.level-diagram figcaption h3 { margin-top: 0.2rem; }
+svg * { stroke-linejoin: round; stroke-linecap: butt; }
 figure.level-diagram svg { width: 100%; max-width: 980px; height: auto; display: block; }
 .picture svg { max-width: 100%; height: auto; display: block; }
 .filters { display: grid; grid-template-columns: max-content 1fr; gap: 0.3rem 0.8rem; align-items: baseline;

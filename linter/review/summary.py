@@ -89,9 +89,11 @@ def waiver_rows(annotation: Annotation, waived: Sequence[Finding]) -> tuple[Waiv
 
 def finding_rails(annotation: Annotation, finding: Finding, net_index: dict[str, int],
                   cell_index: dict[str, int]) -> tuple[str, ...]:
-    """The rails a finding touches: the ones its numbers name, else those on its net or cell."""
-    named = [finding.data.get(key) for key in ("driver_rail", "receiver_rail", "rail")]
-    found = {name for name in named if isinstance(name, str)}
+    """The rails a finding touches: the ones its numbers name (``driver_rail``, ``source_rail``, any
+    key that is or ends in ``rail``), else those of the endpoints on its net or cell."""
+    rails = annotation.rails
+    found = {value for key, value in finding.data.items()
+             if (key == "rail" or key.endswith("_rail")) and isinstance(value, str) and value in rails}
     if not found:
         ep = annotation.endpoints
         if finding.subject_kind in ("net", "port") and finding.subject in net_index:
