@@ -8,6 +8,7 @@ over the alternatives the planner weighed for the same nets.
 from __future__ import annotations
 
 from collections.abc import Sequence
+from dataclasses import replace
 
 from linter.plan.catalogue import BIDIRECTIONAL
 from linter.plan.context import PlanContext
@@ -50,14 +51,26 @@ class _Writer:
         entry[0] += quantity
 
     def instance_name(self, scope: str) -> str:
+        """A placeholder, replaced by the final name once the actions are in their order."""
+        placeholder = f"\x00{len(self._instances)}\x00{scope}"
+        self._instances.add(placeholder)
+        return placeholder
+
+    def final_names(self, actions: list[dict]) -> dict[str, str]:
         taken = self.ctx._taken
-        number = len(self._instances) + 1
-        while f"{scope}.u_lx{number}" in taken:
+        names: dict[str, str] = {}
+        number = 0
+        for fields in actions:
+            placeholder = fields.get("instance")
+            if not placeholder or not placeholder.startswith("\x00"):
+                continue
+            scope = placeholder.split("\x00")[2]
             number += 1
-        name = f"{scope}.u_lx{number}"
-        taken.add(name)
-        self._instances.add(name)
-        return name
+            while f"{scope}.u_lx{number}" in taken:
+                number += 1
+            names[placeholder] = f"{scope}.u_lx{number}"
+            taken.add(names[placeholder])
+        return names
 
     def action(self, **fields) -> None:
         self.actions.append(fields)
@@ -243,7 +256,15 @@ def build_fix_list(ctx: PlanContext, problem: Problem, outcome: Outcome, failing
     writer.net_choices()
     order = {"re-home": 0, "translator": 1, "bidirectional translator": 2, "divider": 3, "pull-up": 4, "replacement": 5}
     actions = sorted(writer.actions, key=lambda a: (order[a["kind"]], [natural_key(n) for n in a["nets"]],
-                                                    a.get("instance") or ""))
+                                                    a["part"], a["receivers"]))
+    names = writer.final_names(actions)
+    for fields in actions:
+        fields["instance"] = names.get(fields.get("instance"), fields.get("instance"))
+    changes = writer.changes
+    changes.packages = sorted((replace(c, instance=names[c.instance]) for c in changes.packages),
+                              key=lambda c: natural_key(c.instance))
+    changes.dividers = sorted((replace(c, instance=names[c.instance]) for c in changes.dividers),
+                              key=lambda c: natural_key(c.instance))
     numbered = tuple(Action(number=i + 1, **fields) for i, fields in enumerate(actions))
     unfixable = []
     for net in problem.nets:
@@ -264,4 +285,4 @@ def build_fix_list(ctx: PlanContext, problem: Problem, outcome: Outcome, failing
         lower_bound=money(outcome.lower_bound), gap=round(outcome.gap, 6), failing_receivers=failing_count,
         fixed_receivers=failing_count - len(unfixable), actions=numbered, unfixable=tuple(unfixable), bom=bom,
         caution=caution)
-    return report, writer.changes
+    return report, changes

@@ -140,7 +140,7 @@ def test_text_nets_listing(workdir: Path) -> None:
     lines = inspect(workdir, "--nets").stdout.splitlines()
     # `name: drivers -> receivers`, each side sorted, as in HIERARCHY_CONNECTIVITY
     for line in (
-        "top.i: <port>.i -> top.bb2.B, top.u1.n0.t1",
+        "top.i: <port>.i -> top.bb2.B, top.u1.n0.t1 (direction unknown: top.m1.P)",
         "top.w: top.u1.n1.t0 -> top.bb1.A, top.u2.n0.t1",
         "top.pad: <port>.pad, top.bb1.IO -> <port>.pad, top.bb1.IO",
         "top.r: no driver -> <port>.r",

@@ -102,12 +102,33 @@ def test_clicking_filters_hides_rows_and_the_page_renders(demo_page, tmp_path):
 
 
 def test_the_level_diagrams_render_as_pictures(fixture_page, tmp_path):
-    """A screenshot of the first diagram's part of the page is not blank and holds the bands' colours."""
+    """A photograph of each diagram's picture is not blank and holds the bands' colours."""
     _, _, folder = fixture_page
-    target = tmp_path / "diagram.png"
-    screenshot(BROWSER, tmp_path / "profile", page_url(folder, "#crossing-1"), target, size="1200,1400")
-    image = np.asarray(Image.open(target).convert("RGB"), float)
-    assert image.std() > 10
-    # the low bands' light blue (#9fd3f0) and the high bands' light orange (#f3c76b) appear somewhere
-    for colour in ((0x9F, 0xD3, 0xF0), (0xF3, 0xC7, 0x6B)):
-        assert (np.abs(image - colour).sum(axis=2) < 12).sum() > 200, colour
+    page = DevToolsPage(BROWSER, tmp_path / "profile", page_url(folder))
+    try:
+        page.wait_for("document.readyState === 'complete'")
+        boxes = page.evaluate(
+            "Array.from(document.querySelectorAll('figure.level-diagram svg')).map(function (svg) {"
+            " var r = svg.getBoundingClientRect();"
+            " return [r.left + window.scrollX, r.top + window.scrollY, r.width, r.height]; })")
+        assert len(boxes) == 5
+        for x, y, width, height in boxes:
+            assert width > 600 and height > 300, "the diagram is drawn at a readable size"
+            shot = page.call("Page.captureScreenshot", format="png", captureBeyondViewport=True,
+                             clip={"x": x, "y": y, "width": width, "height": height, "scale": 1})
+            image = np.asarray(Image.open(io.BytesIO(base64.b64decode(shot["data"]))).convert("RGB"), float)
+            assert image.std() > 10
+            # the low bands' light blue (#9fd3f0) and the high bands' light orange (#f3c76b)
+            for colour in ((0x9F, 0xD3, 0xF0), (0xF3, 0xC7, 0x6B)):
+                assert (np.abs(image - colour).sum(axis=2) < 12).sum() > 200, colour
+    finally:
+        page.close()
+
+
+def test_a_screenshot_from_the_command_line_is_not_blank(demo_page, tmp_path):
+    _, _, folder = demo_page
+    target = tmp_path / "page.png"
+    screenshot(BROWSER, tmp_path / "profile", page_url(folder), target, size="1200,1600")
+    pixels = np.asarray(Image.open(target).convert("L"), float)
+    assert pixels.shape == (1600, 1200)
+    assert pixels.std() > 10 and (pixels < 128).mean() > 0.005

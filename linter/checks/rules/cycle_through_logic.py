@@ -28,8 +28,10 @@ def cycle_through_logic(context: CheckContext) -> Iterator[Finding]:
     -------------
     Every strongly connected group of nets joined by combinational cells (gates, assigns,
     level-sensitive processes, black boxes without a part that says otherwise). Edge-triggered
-    processes and parts declared sequential break paths. Each group is reported once, with one
-    shortest cycle through it spelled out hop by hop: the net, the cell, its source location.
+    processes and parts declared sequential break paths. A cell passing levels both ways between
+    two inout pins (a bidirectional translator, a ``tran`` switch) is no loop by itself; a path
+    out through another cell and back is. Each group is reported once, with one shortest cycle
+    through it spelled out hop by hop: the net, the cell, its source location.
 
     Why it matters
     --------------
