@@ -21,9 +21,10 @@ from linter.electrical.rail import Rail
 from linter.errors import SourceLocation
 from linter.netlist.graph import CellClass, DesignGraph, PinDirection
 
-_TRI_STATE_GATES = frozenset(
-    "bufif0 bufif1 notif0 notif1 nmos pmos rnmos rpmos cmos rcmos tran rtran tranif0 tranif1 rtranif0 rtranif1".split()
-)
+_TRI_STATE_GATES = frozenset("bufif0 bufif1 notif0 notif1 nmos pmos rnmos rpmos cmos rcmos".split())
+# A bidirectional switch only joins two nets; counting its terminals as drivers would report a
+# short wherever one side is driven, so they are marked as passing (never floating, never fighting).
+_SWITCH_GATES = frozenset("tran rtran tranif0 tranif1 rtranif0 rtranif1".split())
 _PULL_GATES = {"pullup": True, "pulldown": False}
 _OUTPUT_KIND = {
     OutputKind.PUSH_PULL: DriveKind.PUSH_PULL,
@@ -118,7 +119,7 @@ def annotate(graph: DesignGraph, design: Design) -> Annotation:
         pin_kind[od] = DriveKind.OPEN_DRAIN
 
     kinds = graph.cell_kinds
-    special_kinds = _TRI_STATE_GATES | _PULL_GATES.keys()
+    special_kinds = _TRI_STATE_GATES | _SWITCH_GATES | _PULL_GATES.keys()
     is_tie = graph.cell_class == CellClass.TIE
     special = {c for c, kind in enumerate(kinds) if kind in special_kinds}
     special.update(np.flatnonzero(is_tie).tolist())
@@ -131,6 +132,10 @@ def annotate(graph: DesignGraph, design: Design) -> Annotation:
             for p in pins:
                 if pin_kind[p] == DriveKind.PUSH_PULL:
                     pin_kind[p] = DriveKind.TRI_STATE
+        elif kind in _SWITCH_GATES:
+            for p in pins:
+                if drives[p]:
+                    pin_kind[p] = DriveKind.SWITCH
         elif kind in _PULL_GATES:
             for p in pins:
                 pin_kind[p] = DriveKind.PULL

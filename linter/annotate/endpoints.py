@@ -26,6 +26,7 @@ class DriveKind(IntEnum):
     PULL = 4  # a weak pull: pullup/pulldown primitives, pull-resistor parts
     CONSTANT = 5  # a tie to a constant
     UNKNOWN = 6  # a pin whose direction nobody declared
+    SWITCH = 7  # a terminal of a bidirectional pass switch (tran, tranif1, ...): passes, never sources
 
     @property
     def strong(self) -> bool:

@@ -22,6 +22,9 @@ def register(subparsers: argparse._SubParsersAction) -> None:
     parser.add_argument("--dot", metavar="FILE", help="also write the rail crossing map as Graphviz DOT")
     parser.add_argument("--net", dest="nets", action="append", default=[], metavar="NAME",
                         help="draw every crossing of this net, failing or not (hierarchical name; repeatable)")
+    parser.add_argument("--catalog", metavar="FILE",
+                        help="fix catalogue for the plan's cost (default: the one 'levelcross plan' uses)")
+    parser.add_argument("--no-plan", action="store_true", help="do not plan fixes (the summary says \"no plan\")")
     parser.set_defaults(run=run)
 
 
@@ -36,10 +39,12 @@ def run(args: argparse.Namespace) -> int:
     from linter.review.figures import figure_files, render_figures
     from linter.review.html import render_html
     from linter.review.model import build_review
-    from linter.review.plan_cost import plan_summary
+    from linter.review.plan_cost import plan_summary, skipped_plan
 
     if not args.design.endswith((".yaml", ".yml")):
         raise UsageError(f"'{args.design}': the report needs a design file (.yaml)")
+    if args.no_plan and args.catalog:
+        raise UsageError("--catalog is for the plan; it makes no sense with --no-plan")
     _check_folder(args.output, "-o")
     if args.dot:
         _check_folder(args.dot, "--dot")
@@ -48,9 +53,13 @@ def run(args: argparse.Namespace) -> int:
     design = load_design(Path(args.design))
     annotation = annotate_design(design)
     result = check_annotation(annotation)
+    if args.no_plan:
+        plan = skipped_plan()
+    else:
+        plan = plan_summary(annotation, result.findings, Path(args.catalog) if args.catalog else None,
+                            __version__, CAUTION)
     model = build_review(annotation, result, tool_version=__version__, caution=CAUTION,
-                         coverage=assignment_coverage(annotation), plan=plan_summary(annotation, result),
-                         nets=args.nets)
+                         coverage=assignment_coverage(annotation), plan=plan, nets=args.nets)
     figures = render_figures(model, with_png=figures_dir is not None)
     page = render_html(model, figures)
     # Everything is rendered before anything is written: a failure leaves no partial output.

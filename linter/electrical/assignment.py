@@ -124,21 +124,21 @@ class AssignmentResolver:
                 bit_names=key[1] == "net",
             )
         self._base_by_path: dict[str, _Layer] = {}
-        self._plain: dict[tuple[str, str], CellAssignment] = {}
+        self._plain: dict[tuple, CellAssignment] = {}
         self._pins: dict[tuple[CellAssignment, str], PinAssignment] = {}
 
     # ---- cells -------------------------------------------------------------------------------
     def cell(self, name: str, kind: str, module_path: str) -> CellAssignment:
         """The settings of the cell ``name`` of kind ``kind`` inside module instance ``module_path``."""
         rules = self._cells.matching_under(module_path + ".", name) if self._cells else []
-        if not rules:
-            key = (module_path, kind)
-            found = self._plain.get(key)
-            if found is None:
-                found = self._finish(self._base(module_path), kind)
-                self._plain[key] = found
-            return found
-        return self._finish(_merge(rules, self._base(module_path)), kind)
+        # Cells under one module path, of one kind, matched by the same rules resolve alike: one
+        # shared object per combination keeps a million cells cheap (and lets callers key on id).
+        key = (module_path, kind, *map(id, rules))
+        found = self._plain.get(key)
+        if found is None:
+            found = self._finish(_merge(rules, self._base(module_path)) if rules else self._base(module_path), kind)
+            self._plain[key] = found
+        return found
 
     def cells(
         self, names: Sequence[str], kinds: Sequence[str], module_paths: Sequence[str]

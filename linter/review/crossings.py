@@ -11,8 +11,6 @@ once per situation.
 from __future__ import annotations
 
 from collections.abc import Iterable, Iterator, Mapping
-from dataclasses import dataclass
-
 import numpy as np
 
 from linter.annotate import Annotation
@@ -34,15 +32,6 @@ def side_verdict(margin_v: float, required_v: float, overloaded: bool) -> str:
     if required_v == required_v and margin_v < required_v:  # NaN: clears every requirement
         return THIN
     return OK
-
-
-@dataclass(frozen=True)
-class PairKey:
-    """A crossing as findings name it: the net and the labels of its driver and receiver."""
-
-    net: str
-    driver: str
-    receiver: str
 
 
 class CrossingTable:
@@ -112,11 +101,6 @@ class CrossingTable:
             thin = ~fail & (np.minimum(low, judged_high) < t.required_v)
         return fail, thin
 
-    def key(self, pair: int) -> PairKey:
-        ep = self.annotation.endpoints
-        return PairKey(self.annotation.graph.net_names[int(self.table.net[pair])],
-                       ep.label(int(self.table.driver[pair])), ep.label(int(self.table.receiver[pair])))
-
     def diagram(self, pair: int, anchor: str, figure_key: str, why: str,
                 overvoltage_finding: Finding | None = None) -> LevelDiagram:
         """The numbers of one pair's level diagram.
@@ -127,7 +111,8 @@ class CrossingTable:
         """
         ep, t = self.annotation.endpoints, self.table
         m, ov = self.margins(pair), self.overvoltage_of(pair)
-        net_max_v, input_max_v, excess_mv, limit_rail_v = ov.net_max_v, ov.input_max_v, -ov.margin_mv, ov.corner.receiver_v
+        net_max_v, input_max_v, excess_mv = ov.net_max_v, ov.input_max_v, -ov.margin_mv
+        limit_rail_v = ov.corner.receiver_v
         if overvoltage_finding is not None:
             data = overvoltage_finding.data
             net_max_v, input_max_v = data["net_max_v"], data["input_max"]
@@ -154,12 +139,14 @@ class CrossingTable:
             high_corner=(m.high_corner.driver_v, m.high_corner.receiver_v),
             driver_top_v=m.high_corner.driver_v, receiver_top_v=m.high_corner.receiver_v,
             input_min_v=receiver_family.input_min_at(limit_rail_v), input_max_v=input_max_v,
-            net_max_v=net_max_v, overvoltage_mv=round(-excess_mv, 6) + 0.0, overvoltage_corner=(net_max_v, limit_rail_v),
+            net_max_v=net_max_v, overvoltage_mv=round(-excess_mv, 6) + 0.0,
+            overvoltage_corner=(net_max_v, limit_rail_v),
             low_verdict=low, high_verdict=high, overvoltage_verdict=over,
             overloaded=m.overload_low or (judged_high and m.overload_high),
         )
 
-    def pairs_of_findings(self, findings: Iterable[Finding], net_index: Mapping[str, int]) -> Iterator[tuple[int, Finding]]:
+    def pairs_of_findings(self, findings: Iterable[Finding],
+                          net_index: Mapping[str, int]) -> Iterator[tuple[int, Finding]]:
         """(pair, finding) for every finding of a crossing rule that names a pair in the table.
 
         A margin finding names its driver and its receiver. An over-voltage finding names its

@@ -59,12 +59,19 @@ class WaiverRow:
 
 @dataclass(frozen=True)
 class PlanSummary:
-    """The planner's cost against the naive plan (a translator on every failing crossing)."""
+    """The planner's totals: its cost against the naive plan (one single-bit fix per failing receiver)."""
 
     available: bool
     total_cost: float | None = None
     naive_cost: float | None = None
-    fixes: int | None = None
+    fixes: int | None = None  # actions in the plan
+    cost_unit: str = ""
+    lower_bound: float | None = None
+    optimal: bool = False
+    fixed_receivers: int = 0
+    failing_receivers: int = 0
+    unfixable: int = 0
+    catalogue: str = ""
     note: str = ""
 
 

@@ -112,6 +112,7 @@ def _diagram(d: LevelDiagram, svg: str) -> list[str]:
                            d.overvoltage_corner))
     required = f" Required noise margin on this net: {format_millivolts(d.required_mv)}." if d.required_mv else ""
     pull_up = f" The driver is open-drain, {escape(d.pull_up)}." if d.pull_up else ""
+    overload = " The load is beyond the driver's rating: its levels are not guaranteed." if d.overloaded else ""
     return [
         f'<figure class="level-diagram verdict-{overall}" {attribute_text}>',
         "<figcaption>",
@@ -124,7 +125,7 @@ def _diagram(d: LevelDiagram, svg: str) -> list[str]:
         '<table class="levels"><thead><tr><th>check</th><th>driver side</th><th>receiver side</th>'
         '<th class="num">margin</th><th>verdict</th><th>worst corner (driver rail, receiver rail)</th></tr>'
         "</thead><tbody>", *rows, "</tbody></table>",
-        f"<p>{required}{pull_up}{' The load is beyond the driver rating: its levels are not guaranteed.' if d.overloaded else ''}</p>",
+        f"<p>{required}{pull_up}{overload}</p>",
         "</figcaption>",
         inline_svg(svg, d.anchor, f"Level diagram of net {d.net}: driver {d.driver_family} into receiver "
                                   f"{d.receiver_family}"),

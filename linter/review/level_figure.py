@@ -125,6 +125,12 @@ def _draw_guides(drawn: LevelFigure, d: LevelDiagram) -> None:
     if d.overvoltage_verdict == FAIL:
         drawn.axes.plot([DRIVER_X[0], RANGE_X[1]], [d.net_max_v, d.net_max_v], color=VERDICT_COLOUR[FAIL],
                         linewidth=1.1, linestyle="--", gid="net-max", zorder=4)
+        label = drawn.axes.text(sum(RECEIVER_X) / 2, d.net_max_v, f"over-voltage {format_margin(d.overvoltage_mv)}"
+                                "\nFAIL", ha="center", va="center", multialignment="center", fontsize=8,
+                                fontweight="bold", zorder=6, gid="overvoltage-label",
+                                bbox={"boxstyle": "round,pad=0.25", "facecolor": "white",
+                                      "edgecolor": VERDICT_COLOUR[FAIL], "linewidth": 1.0})
+        drawn.labels["overvoltage-label"] = label
 
 
 def _draw_margins(drawn: LevelFigure, d: LevelDiagram) -> None:

@@ -21,7 +21,7 @@ from linter.review.summary import finding_rails, power_state_rows, rail_rows, ru
 from linter.review.topology import crossing_map, family_matrix
 from linter.report.model import coverage_phrases, summarize
 
-NO_PLAN = PlanSummary(False, note="no plan was made for this report")
+NO_PLAN = PlanSummary(False, note="No plan was made for this report.")
 
 
 def build_review(annotation: Annotation, result: CheckResult, *, tool_version: str, caution: str,

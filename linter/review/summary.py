@@ -23,22 +23,22 @@ def rail_rows(annotation: Annotation) -> tuple[tuple[RailRow, ...], int]:
     ep = annotation.endpoints
     rail_count = len(ep.rail_names)
     on_rail = ep.rail >= 0
-    cells_per_rail = _distinct_per_rail(ep.cell[on_rail & (ep.cell >= 0)], ep.rail[on_rail & (ep.cell >= 0)], rail_count)
+    pins = on_rail & (ep.cell >= 0)
+    cells_per_rail = _distinct_per_rail(ep.cell[pins], ep.rail[pins], rail_count)
     net_mask = on_rail & (ep.net >= 0)
     nets, rails = _distinct_pairs(ep.net[net_mask], ep.rail[net_mask])
     nets_per_rail = np.bincount(rails, minlength=rail_count)
     rails_per_net = np.bincount(nets, minlength=annotation.graph.net_count)
     shared_per_rail = np.bincount(rails[rails_per_net[nets] > 1], minlength=rail_count)
     cells_with_rail = np.zeros(annotation.graph.cell_count, bool)
-    cells_with_rail[ep.cell[on_rail & (ep.cell >= 0)]] = True
+    cells_with_rail[ep.cell[pins]] = True
     cells_with_rail |= annotation.cell_rail >= 0
     index = {name: i for i, name in enumerate(ep.rail_names)}
     rows = []
     for name, rail in sorted(annotation.rails.items()):
-        i = index.get(name)
-        count = (lambda array: int(array[i]) if i is not None else 0)
-        rows.append(RailRow(name, rail.nominal, rail.minimum, rail.maximum,
-                            count(cells_per_rail), count(nets_per_rail), count(shared_per_rail)))
+        i = index.get(name)  # a rail no endpoint uses has no index
+        counts = [int(array[i]) if i is not None else 0 for array in (cells_per_rail, nets_per_rail, shared_per_rail)]
+        rows.append(RailRow(name, rail.nominal, rail.minimum, rail.maximum, *counts))
     return tuple(rows), int((~cells_with_rail).sum())
 
 

@@ -34,7 +34,8 @@ def power_state_table(model: ReviewModel) -> str:
     if not model.power_states:
         return "<p>The design file declares no power states (every rail is taken as on).</p>"
     head = ["state"] + [f"<code>{escape(r.name)}</code>" for r in model.rails]
-    rows = [[escape(s.name)] + ["on" if on else "<strong>OFF</strong>" for on in s.rails_on] for s in model.power_states]
+    rows = [[escape(s.name)] + ["on" if on else "<strong>OFF</strong>" for on in s.rails_on]
+            for s in model.power_states]
     return _table(head, rows)
 
 
@@ -64,13 +65,18 @@ def waiver_table(model: ReviewModel) -> str:
 def plan_paragraph(plan: PlanSummary) -> str:
     if not plan.available:
         return f"<p><strong>No plan.</strong> {escape(plan.note)}</p>"
-    total, naive = plan.total_cost, plan.naive_cost
-    text = f"The plan costs <strong>{total:g}</strong> against <strong>{naive:g}</strong> for the naive plan"
-    if naive:
-        text += f" ({(naive - total) / naive:.0%} less)"
-    if plan.fixes is not None:
-        text += f", with {plan.fixes} fix{'es' if plan.fixes != 1 else ''}"
-    return f"<p>{text}.{(' ' + escape(plan.note)) if plan.note else ''}</p>"
+    unit = f" {escape(plan.cost_unit)}" if plan.cost_unit else ""
+    total, naive = plan.total_cost or 0.0, plan.naive_cost or 0.0
+    saving = f" ({(naive - total) / naive:.0%} less)" if naive else ""
+    bound = "proven optimal" if plan.optimal else f"lower bound {plan.lower_bound:.3f}{unit}"
+    rows = [["plan cost", f"<strong>{total:.3f}</strong>{unit}"], ["naive plan", f"{naive:.3f}{unit}{saving}"],
+            ["optimality", bound], ["fixes", str(plan.fixes)],
+            ["failing receivers fixed", f"{plan.fixed_receivers} of {plan.failing_receivers}"
+             + (f" ({plan.unfixable} unfixable with this catalogue)" if plan.unfixable else "")],
+            ["catalogue", f"<code>{escape(plan.catalogue)}</code>"]]
+    body = "".join(f"<tr><th>{key}</th><td>{value}</td></tr>" for key, value in rows)
+    exact = f'data-cost="{total!r}" data-naive-cost="{naive!r}"'
+    return f'<table class="plan" {exact}><tbody>{body}</tbody></table><p>{escape(plan.note)}</p>'
 
 
 def matrix_table(matrix: FamilyMatrix) -> str:

@@ -143,7 +143,7 @@ def test_text_nets_listing(workdir: Path) -> None:
         "top.i: <port>.i -> top.bb2.B, top.u1.n0.t1 (direction unknown: top.m1.P)",
         "top.w: top.u1.n1.t0 -> top.bb1.A, top.u2.n0.t1",
         "top.pad: <port>.pad, top.bb1.IO -> <port>.pad, top.bb1.IO",
-        "top.r: no driver -> <port>.r",
+        "top.r: no driver -> <port>.r (direction unknown: top.m2.#3)",
         "top.bb1.B: no driver -> top.bb1.B",
         "top.bb2.Y: top.bb2.Y -> no receiver",
         "top.u2.m: top.u2.n0.t0 -> top.u2.n1.t1",

@@ -63,6 +63,9 @@ class DevToolsPage:
         try:
             port = self._port(profile)
             self._socket = self._connect(self._page_socket_url(port, url))
+            # the target may still show about:blank while the file loads
+            base = json.dumps(url.split("#")[0])
+            self.wait_for(f"location.href.split('#')[0] === {base} && document.readyState === 'complete'", 60.0)
         except BaseException:
             self.close()
             raise

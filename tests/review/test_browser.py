@@ -19,7 +19,6 @@ import pytest
 from PIL import Image
 
 from tests.review.devtools import DevToolsPage, dump_dom, find_browser, screenshot
-from tests.review.page_parser import read_page
 
 BROWSER = find_browser()
 pytestmark = pytest.mark.skipif(BROWSER is None, reason="no Chromium installed (looked for chromium, "

@@ -65,6 +65,8 @@ def test_over_voltage_draws_the_nets_top_above_the_input_limit(model):
     assert list(line.get_ydata()) == pytest.approx([3.465, 3.465])
     assert band(drawn, "receiver-range")[1] == pytest.approx(2.01)
     assert drawn.labels["label-net-max"].get_text() == "net top 3.465 V"
+    assert drawn.labels["overvoltage-label"].get_text() == "over-voltage -1455 mV\nFAIL"
+    assert "overvoltage-label" not in draw_level_diagram(diagram(model, "three_rail.irq")).labels
 
 
 def test_the_thin_margin_says_thin(model):

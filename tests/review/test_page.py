@@ -9,11 +9,13 @@ json`` for the same design (both parsed, compared as numbers).
 
 from __future__ import annotations
 
+import json
 import re
 
 import pytest
 
 from linter.review.units import format_margin
+from tests.review.conftest import THREE_RAIL, run_cli
 from tests.review.page_parser import read_page
 
 MARGIN_RULES = {"low-level-margin": "low", "high-level-margin": "high"}
@@ -150,13 +152,15 @@ def test_findings_table_follows_the_check_and_carries_filter_data(page_and_check
     rows = page.rows["findings-table"]
     assert [(r.attributes["data-rule"], r.attributes["data-severity"]) for r in rows] == [
         (f["rule"], f["severity"]) for f in check["findings"]]
-    assert [r.attributes["data-rule"] for r in page.rows.get("waived-table", [])] == [f["rule"] for f in check["waived"]]
+    waived = [r.attributes["data-rule"] for r in page.rows.get("waived-table", [])]
+    assert waived == [f["rule"] for f in check["waived"]]
 
 
 def test_findings_link_to_their_diagram_and_name_their_rails(fixture_page):
     page = read_page(fixture_page[0])
     rows = page.rows["findings-table"]
-    anchors = {f.attributes["data-net"]: f.attributes["id"] for f in page.figures if f.attributes["data-why"] != "requested"}
+    anchors = {f.attributes["data-net"]: f.attributes["id"] for f in page.figures
+               if f.attributes["data-why"] != "requested"}
     by_rule = {}
     for row in rows:
         by_rule.setdefault(row.attributes["data-rule"], []).append(row)
@@ -176,4 +180,23 @@ def test_the_page_names_the_sections_and_the_caution(fixture_page):
         assert f"<h2>{heading}</h2>" in text
     assert "levelcross checks declared DC data only" in text
     assert "over-voltage and back-powering can damage parts" in text
-    assert "No plan." in text
+
+
+def test_the_plans_cost_equals_the_planners_json(fixture_page, tmp_path):
+    """The summary's plan cost and naive cost are ``levelcross plan --format json``'s totals."""
+    text, _, _ = fixture_page
+    out = tmp_path / "plan.json"
+    run_cli("plan", THREE_RAIL, "--format", "json", "-o", out)
+    totals = json.loads(out.read_text(encoding="utf-8"))["totals"]
+    ((_, attributes),) = [(t, a) for t, a in read_page(text).elements if "plan" in a.get("class", "").split()]
+    assert (float(attributes["data-cost"]), float(attributes["data-naive-cost"])) == (
+        totals["cost"], totals["naive_cost"])
+    assert f"<strong>{totals['cost']:.3f}</strong>" in text
+    assert f"{totals['fixed_receivers']} of {totals['failing_receivers']}" in text
+
+
+def test_without_a_plan_the_summary_says_so(tmp_path):
+    assert run_cli("report", THREE_RAIL, "-o", tmp_path / "review.html", "--no-plan") == 1
+    text = (tmp_path / "review.html").read_text(encoding="utf-8")
+    assert "<p><strong>No plan.</strong> Planning was skipped (--no-plan).</p>" in text
+    assert 'class="plan"' not in text

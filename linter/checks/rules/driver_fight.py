@@ -14,6 +14,7 @@ from linter.checks.registry import rule
 _KIND_WORD = {
     DriveKind.PUSH_PULL: "push-pull", DriveKind.CONSTANT: "constant tie", DriveKind.OPEN_DRAIN: "open-drain",
     DriveKind.TRI_STATE: "tri-state", DriveKind.PULL: "pull", DriveKind.UNKNOWN: "unknown",
+    DriveKind.SWITCH: "pass switch",
 }
 
 
