@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass, field
+from typing import NamedTuple
 
 from pyslang import ast, syntax
 
@@ -114,7 +115,9 @@ class TemplateBuilder:
         # keyed by id(): hashing pybind symbols is slow, and wrappers are identity-stable while
         # alive, which ``_alive`` guarantees
         self.symbols: dict[int, SymbolBits] = {}
-        self._alive: list[ast.Symbol] = []
+        self._alive: list[object] = []
+        self._shapes: dict[int, _TypeShape] = {}
+        self._supplies: dict[int, int | None] = {}
         self.resolver = BitResolver(self._symbol_bits)
         self._body_path_length = len(body.hierarchicalPath) + 1
         self._primitive_specs: dict[ast.Symbol, tuple[str, int, int, list[int] | None]] = {}
@@ -123,23 +126,40 @@ class TemplateBuilder:
     # ---- bits of symbols -----------------------------------------------------------------------
     def _allocate(self, symbol: ast.Symbol, name: str) -> SymbolBits:
         t = self.template
-        symbol_type = symbol.type
-        width = _bit_width(symbol_type)
+        shape = self._shape_of(symbol.type)
+        width = shape.width
         base = len(t.net_names)
-        declared = symbol_type.fixedRange
-        descending = declared.left >= declared.right
-        info = SymbolBits(base, width, declared.lower, declared.upper, descending)
-        t.net_names.extend(_bit_names(name, symbol_type))
+        info = SymbolBits(base, width, shape.lower, shape.upper, shape.descending)
+        t.net_names.extend(_bit_names(name, shape))
         t.net_location.extend([self.locations.intern(symbol.location)] * width)
         if symbol.kind == SK.Net:
             # supply0 / supply1 nets are driven by the rail itself; without a tie every gate
             # input on one would look floating
-            constant = _SUPPLY_CONSTANT.get(symbol.netType.netKind)
+            constant = self._supply_constant(symbol.netType)
             if constant is not None:
                 t.ties.extend((base + offset, constant) for offset in range(width))
         self.symbols[id(symbol)] = info
         self._alive.append(symbol)
         return info
+
+    def _shape_of(self, symbol_type: object) -> _TypeShape:
+        """The bit layout of a type; the many nets of one type share one wrapper, so cache by id."""
+        shape = self._shapes.get(id(symbol_type))
+        if shape is None:
+            declared = symbol_type.fixedRange
+            shape = _TypeShape(_bit_width(symbol_type), declared.lower, declared.upper,
+                               declared.left >= declared.right, declared.width,
+                               symbol_type.isPackedArray or symbol_type.isUnpackedArray)
+            self._shapes[id(symbol_type)] = shape
+            self._alive.append(symbol_type)
+        return shape
+
+    def _supply_constant(self, net_type: object) -> int | None:
+        key = id(net_type)
+        if key not in self._supplies:
+            self._supplies[key] = _SUPPLY_CONSTANT.get(net_type.netKind)
+            self._alive.append(net_type)
+        return self._supplies[key]
 
     def _symbol_bits(self, symbol: ast.Symbol) -> SymbolBits | None:
         info = self.symbols.get(id(symbol))
@@ -164,7 +184,7 @@ class TemplateBuilder:
         if port_type is not None and port_type.bitWidth == width:
             # These bits merge with the child's port net of the same name; numbering them by its
             # declared range keeps ``u.d[3]`` one bit, not the LSB here and the MSB in the child.
-            t.net_names.extend(_bit_names(name, port_type))
+            t.net_names.extend(_bit_names(name, self._shape_of(port_type)))
         else:
             t.net_names.extend([name] if width == 1 else [f"{name}[{i}]" for i in range(width)])
         t.net_location.extend([location] * width)
@@ -500,23 +520,29 @@ def _bit_width(symbol_type: object) -> int:
     return symbol_type.bitWidth
 
 
-def _bit_names(name: str, symbol_type: object) -> list[str]:
-    """The name of each bit of a net of ``symbol_type``, LSB first: ``d``, ``d[0]``, ``m[1][0]``."""
-    width = _bit_width(symbol_type)
-    declared = symbol_type.fixedRange
-    is_array = symbol_type.isPackedArray or symbol_type.isUnpackedArray
-    if width == 1 and not is_array:
+class _TypeShape(NamedTuple):
+    width: int
+    lower: int
+    upper: int
+    descending: bool
+    declared_width: int  # elements of the outermost dimension
+    is_array: bool
+
+
+def _bit_names(name: str, shape: _TypeShape) -> list[str]:
+    """The name of each bit of a net of this shape, LSB first: ``d``, ``d[0]``, ``m[1][0]``."""
+    width = shape.width
+    if width == 1 and not shape.is_array:
         return [name]
-    descending = declared.left >= declared.right
-    if declared.width == width or not is_array:
-        first, step = (declared.lower, 1) if descending else (declared.upper, -1)
+    if shape.declared_width == width or not shape.is_array:
+        first, step = (shape.lower, 1) if shape.descending else (shape.upper, -1)
         return [f"{name}[{first + step * offset}]" for offset in range(width)]
     # multi-dimensional: name the outer index, then the offset inside it
-    per_element = width // declared.width
+    per_element = width // shape.declared_width
     names = []
     for offset in range(width):
         outer, inner = divmod(offset, per_element)
-        index = declared.lower + outer if descending else declared.upper - outer
+        index = shape.lower + outer if shape.descending else shape.upper - outer
         names.append(f"{name}[{index}][{inner}]")
     return names
 

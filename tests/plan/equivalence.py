@@ -2,22 +2,23 @@
 
 The patched netlist must compute what the original computes, with the inserted translators and
 dividers modelled as buffers (their stub modules say ``assign B = A``). Both netlists contain
-the same empty black-box modules (the parts of the board); an empty module leaves its outputs
-undriven, which yosys would treat as free and different in the two copies. So, before the
-proof, every module that yosys reports with no cells and no connections gets the same
-deterministic body in both designs: each output bit the parity of a fixed pseudo-random subset
-of the module's input bits, inverted on odd bits, plus the AND of the first two input bits.
-Miswiring a black box (an input on the wrong net, two bits swapped) then changes what the
-outputs compute, and the proof fails.
+the same empty modules (the parts of the board), which yosys keeps as black boxes. Each
+black-box instance is cut out (``expose -evert``): its outputs become inputs of the top and
+its inputs outputs of the top, named after the instance and pin, the same in both designs. So
+every part must see the same signals on the same pins in both; a miswired pin (a receiver left
+on the wrong net, two bits swapped) leaves a pair unproven and the proof fails.
 
-The proof is yosys's own: ``miter -equiv -flatten -make_assert`` of the two tops, then
-``sat -verify -prove-asserts -tempinduct`` (flip-flops included, from equal initial state).
+The proof is yosys's own ``equiv_*`` flow on the flattened tops: ``equiv_make`` pairs the
+signals of equal names, ``equiv_simple`` and ``equiv_induct`` prove each pair from the pairs
+feeding it (which copes with the board's combinational loop and undriven nets, where a plain
+miter would see free values), and ``equiv_status -assert`` fails unless every pair is proven.
 Nothing here imports ``linter``: the reference must not share the tool's bugs.
 """
 
 from __future__ import annotations
 
 import json
+import re
 import subprocess
 from pathlib import Path
 
@@ -36,6 +37,47 @@ def _run(script: str, folder: Path, timeout: int = 900) -> str:
     if done.returncode != 0 or "ERROR:" in log:
         raise NotEquivalent(f"yosys failed:\n{log[-4000:]}")
     return log
+
+
+_GATE_ARRAY = re.compile(r"\b(and|nand|or|nor|xor|xnor|buf|not)\s+(\w+)\s*\[(\d+)\s*:\s*(\d+)\]\s*\(([^;]*)\)\s*;")
+_MODULE = re.compile(r"\bmodule\b.*?\bendmodule\b", re.S)
+
+
+def expand_gate_arrays(text: str) -> str:
+    """Gate primitive arrays (``buf u[10:0] (ch, s);``) as one gate per element: yosys 0.70 reads
+    no primitive arrays. A terminal that names a vector of the array's width takes one bit per
+    element; any other terminal goes to every element (IEEE 1364-2005 7.1.5, from memory)."""
+
+    def module(match: re.Match) -> str:
+        body = match.group(0)
+        widths = {name: abs(int(a) - int(b)) + 1 for a, b, name in
+                  re.findall(r"\[(\d+)\s*:\s*(\d+)\]\s*(\w+)", body)}
+        lows = {name: min(int(a), int(b)) for a, b, name in re.findall(r"\[(\d+)\s*:\s*(\d+)\]\s*(\w+)", body)}
+
+        def gates(gate: re.Match) -> str:
+            kind, name, left, right, terminals = gate.groups()
+            size = abs(int(left) - int(right)) + 1
+            args = [arg.strip() for arg in terminals.split(",")]
+            lines = []
+            for element in range(size):
+                index = min(int(left), int(right)) + element
+                bits = [f"{arg}[{lows[arg] + element}]" if widths.get(arg) == size else arg for arg in args]
+                lines.append(f"{kind} {name}_{index} ({', '.join(bits)});")
+            return "\n  ".join(lines)
+
+        return _GATE_ARRAY.sub(gates, body)
+
+    return _MODULE.sub(module, text)
+
+
+def prepared(folder: Path, files: list[str], tag: str) -> list[str]:
+    """Copies of ``files`` with gate arrays expanded, for yosys to read."""
+    names = []
+    for name in files:
+        target = f"{tag}_{Path(name).name}"
+        (folder / target).write_text(expand_gate_arrays((folder / name).read_text()))
+        names.append(target)
+    return names
 
 
 def _read(files: list[str]) -> str:
@@ -59,51 +101,22 @@ def empty_modules(folder: Path, files: list[str], top: str) -> dict[str, list[tu
     return found
 
 
-def model_text(modules: dict[str, list[tuple[str, str, int]]]) -> str:
-    """Deterministic bodies for the black boxes (the same text goes into both designs)."""
-    chunks = []
-    for name in sorted(modules):
-        ports = modules[name]
-        declarations = []
-        inputs: list[str] = []
-        for port, direction, width in ports:
-            kind = "input" if direction in ("input", "inout") else "output"
-            declarations.append(f"{kind} [{width - 1}:0] \\{port} ")
-            if kind == "input":
-                inputs.extend(f"\\{port} [{i}]" for i in range(width))
-        body = []
-        output_index = 0
-        for port, direction, width in ports:
-            if direction != "output":
-                continue
-            for bit in range(width):
-                chosen = [signal for i, signal in enumerate(inputs) if (i * 7 + output_index * 3 + 1) % 5 < 3]
-                terms = " ^ ".join(chosen) if chosen else "1'b0"
-                if len(inputs) >= 2:
-                    terms += f" ^ ({inputs[0]} & {inputs[1]})"
-                invert = "~" if output_index % 2 else ""
-                body.append(f"  assign \\{port} [{bit}] = {invert}({terms});")
-                output_index += 1
-        chunks.append(f"module \\{name} ({', '.join(declarations)});\n" + "\n".join(body) + "\nendmodule\n")
-    return "\n".join(chunks)
-
-
-def prove_equivalent(folder: Path, gold: list[str], gate: list[str], top: str, seq: int = 4) -> str:
+def prove_equivalent(folder: Path, gold: list[str], gate: list[str], top: str) -> str:
     """Raise :class:`NotEquivalent` unless yosys proves ``gate`` computes what ``gold`` computes.
 
     File names are relative to ``folder`` (yowasp sees a private /tmp, so it runs there).
     """
-    modules = empty_modules(folder, gold, top)
-    (folder / "blackbox_models.v").write_text(model_text(modules))
-    prepare = "hierarchy -top {top}; proc; flatten; opt_clean; rename {top} {name}; design -stash {name}"
-    script = "; ".join([
-        _read(gold + ["blackbox_models.v"]), prepare.format(top=top, name="gold"),
-        _read(gate + ["blackbox_models.v"]), prepare.format(top=top, name="gate"),
-        "design -copy-from gold -as gold gold", "design -copy-from gate -as gate gate",
-        "miter -equiv -flatten -make_assert gold gate miter", "hierarchy -top miter",
-        f"sat -verify -prove-asserts -set-init-zero -tempinduct -seq {seq} miter",
-    ])
-    log = _run(script, folder)
-    if "SAT temporal induction proof finished - no model found: SUCCESS!" not in log and "SUCCESS" not in log:
+    gold, gate = prepared(folder, gold, "gold"), prepared(folder, gate, "gate")
+    boxes = sorted(empty_modules(folder, gold, top))
+    evert = f"expose -evert {' '.join(f't:{name}' for name in boxes)}" if boxes else ""
+    prepare = ["hierarchy -top {top}", "proc", "flatten -noscopeinfo", "opt_clean", evert, "rename {top} {name}",
+               "design -stash {name}"]
+    steps = [_read(gold)] + [step.format(top=top, name="gold") for step in prepare if step]
+    steps += [_read(gate)] + [step.format(top=top, name="gate") for step in prepare if step]
+    steps += ["design -copy-from gold -as gold gold", "design -copy-from gate -as gate gate",
+              "equiv_make gold gate equiv", "hierarchy -top equiv", "equiv_simple -seq 2", "equiv_induct -seq 2",
+              "equiv_status -assert"]
+    log = _run("; ".join(steps), folder)
+    if "are proven and 0 are unproven" not in log:
         raise NotEquivalent(log[-4000:])
     return log
