@@ -14,6 +14,7 @@ from typing import Any
 import yaml
 
 from linter.errors import InputError, SourceLocation
+from linter.textfile import read_text_input
 
 
 class LocatedDict(dict):
@@ -110,18 +111,5 @@ def load_yaml_text(text: str, source_name: str) -> Any:
 def load_yaml_file(path: str | Path) -> Any:
     """Read and parse a YAML file; a missing, unreadable or binary file is an :class:`InputError`."""
     name = str(path)
-    try:
-        raw = Path(path).read_bytes()
-    except FileNotFoundError:
-        raise InputError(f"no such file '{name}'") from None
-    except IsADirectoryError:
-        raise InputError(f"'{name}' is a folder, not a YAML file") from None
-    except OSError as error:
-        raise InputError(f"cannot read '{name}': {error.strerror}") from None
-    if b"\x00" in raw:
-        raise InputError("binary file, expected YAML text", SourceLocation(name))
-    try:
-        text = raw.decode("utf-8")
-    except UnicodeDecodeError as error:
-        raise InputError(f"not UTF-8 text (byte {error.start})", SourceLocation(name)) from None
+    text = read_text_input(path, "YAML")
     return load_yaml_text(text, name)

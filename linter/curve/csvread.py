@@ -24,6 +24,7 @@ from pathlib import Path
 
 import numpy as np
 
+from linter.textfile import read_text_input
 from linter.errors import InputError, SourceLocation
 
 MIN_DISTINCT_INPUTS = 8
@@ -68,22 +69,8 @@ def _parse_number(text: str) -> float | None:
 
 
 def _read_text(path: str) -> str:
-    try:
-        raw = Path(path).read_bytes()
-    except FileNotFoundError:
-        raise InputError(f"no such file '{path}'") from None
-    except IsADirectoryError:
-        raise InputError(f"'{path}' is a folder, not a CSV file") from None
-    except OSError as error:
-        raise InputError(f"cannot read '{path}': {error.strerror}") from None
-    if not raw.strip():
-        raise InputError("empty file, expected rows of (input volts, output volts)", SourceLocation(path))
-    if b"\x00" in raw:
-        raise InputError("binary file, expected CSV text", SourceLocation(path))
-    try:
-        return raw.decode("utf-8-sig")
-    except UnicodeDecodeError as error:
-        raise InputError(f"not UTF-8 text (byte {error.start})", SourceLocation(path)) from None
+    return read_text_input(path, "CSV", empty="empty file, expected rows of (input volts, output volts)",
+                           encoding="utf-8-sig")
 
 
 def _parse_rows(path: str, text: str) -> tuple[list[float], list[float]]:

@@ -16,6 +16,7 @@ import pyslang
 from pyslang import ast, syntax
 
 from linter.errors import InputError, SourceLocation
+from linter.textfile import read_text_input
 
 # Warnings that say nothing about connectivity or electrical behaviour of a netlist.
 _QUIET_WARNINGS = {"newline-eof", "unused-def", "udp-coverage"}
@@ -43,29 +44,7 @@ def location_of(source_manager: pyslang.SourceManager, loc: pyslang.SourceLocati
 
 def _check_readable(path: Path) -> None:
     """Reject files slang would misread: missing, folders, empty, binary or not UTF-8."""
-    name = str(path)
-    if not path.exists():
-        raise InputError(f"no such file '{name}'")
-    if path.is_dir():
-        raise InputError(f"'{name}' is a folder, not a Verilog file")
-    try:
-        raw = path.read_bytes()
-    except OSError as error:
-        raise InputError(f"cannot read '{name}': {error.strerror}") from None
-    if not raw.strip():
-        raise InputError("empty file: no Verilog to read", SourceLocation(name, 1, 1))
-    if b"\x00" in raw:
-        raise InputError("binary file: expected Verilog text", _byte_location(name, raw, raw.index(b"\x00")))
-    try:
-        raw.decode("utf-8")
-    except UnicodeDecodeError as error:
-        raise InputError(f"not UTF-8 text (byte {error.start})", _byte_location(name, raw, error.start)) from None
-
-
-def _byte_location(name: str, raw: bytes, offset: int) -> SourceLocation:
-    """Line and column (counted in bytes, as slang does) of the byte at ``offset``."""
-    line_start = raw.rfind(b"\n", 0, offset) + 1
-    return SourceLocation(name, raw.count(b"\n", 0, offset) + 1, offset - line_start + 1)
+    read_text_input(path, "Verilog", empty="empty file: no Verilog to read")
 
 
 def _defines(defines: Mapping[str, str] | Sequence[str]) -> list[str]:

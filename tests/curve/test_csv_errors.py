@@ -20,8 +20,8 @@ BAD_FILES = [
     ("bad_non_numeric.csv", "4:6: error: '3.1V' is not a number (expected volts)"),
     ("bad_nan.csv", "3:1: error: 'nan' is not a finite voltage"),
     ("bad_columns.csv", "3:1: error: expected 2 comma-separated columns (input volts, output volts), found 3"),
-    ("bad_empty.csv", " error: empty file, expected rows of (input volts, output volts)"),
-    ("bad_binary.csv", " error: binary file, expected CSV text"),
+    ("bad_empty.csv", "1:1: error: empty file, expected rows of (input volts, output volts)"),
+    ("bad_binary.csv", "1:1: error: binary file: expected CSV text"),  # the NUL is the very first byte
     (
         "bad_too_few.csv",
         " error: too few points: 5 distinct input voltages, at least 8 are needed to find the unity-gain points",
@@ -57,7 +57,8 @@ def test_header_only_and_not_utf8(curve, tmp_path: Path) -> None:
     latin = tmp_path / "latin.csv"
     latin.write_bytes("vin,vout\n0.0,3.3\n# \xb5V\n".encode("latin-1"))
     run = curve(latin)
-    assert (run.code, run.err) == (2, f"{latin}: error: not UTF-8 text (byte 19)\n")
+    # byte 19 is the 0xb5 after "# " on line 3, which starts at byte 17: column 3
+    assert (run.code, run.err) == (2, f"{latin}:3:3: error: not UTF-8 text (byte 19)\n")
 
 
 def test_only_the_first_row_may_be_a_header(tmp_path: Path) -> None:
@@ -124,5 +125,5 @@ def test_no_traceback_from_the_real_command_line() -> None:
         capture_output=True, text=True, cwd=PROJECT_ROOT, check=False,
     )
     assert completed.returncode == 2
-    assert completed.stderr == f"{FIXTURES / 'bad_binary.csv'}: error: binary file, expected CSV text\n"
+    assert completed.stderr == f"{FIXTURES / 'bad_binary.csv'}:1:1: error: binary file: expected CSV text\n"
     assert "Traceback" not in completed.stderr
