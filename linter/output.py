@@ -29,6 +29,8 @@ def write_atomic(path: str | os.PathLike[str], text: str | bytes) -> None:
     try:
         with os.fdopen(fd, "wb") as handle:
             handle.write(data)
+        # mkstemp makes the file private (0600); give it the mode a plain open() would have
+        os.chmod(tmp_name, target.stat().st_mode & 0o777 if target.exists() else 0o666 & ~_umask())
         os.replace(tmp_name, target)
     except OSError as error:
         if os.path.exists(tmp_name):
@@ -38,3 +40,9 @@ def write_atomic(path: str | os.PathLike[str], text: str | bytes) -> None:
         if os.path.exists(tmp_name):
             os.unlink(tmp_name)
         raise
+
+
+def _umask() -> int:
+    current = os.umask(0)
+    os.umask(current)
+    return current

@@ -82,7 +82,7 @@ class PlanContext:
     def required_v(self, net_name: str, source: Source) -> float:
         """The least margin a crossing on ``net_name`` must keep, at the source's swing."""
         requirement = self.annotation.resolver.noise_margin(net_name)
-        return requirement.required_v(self.rails[source.rail].nominal)
+        return requirement.required_v(self.judge.rails[source.rail].nominal)
 
     def pull_ups(self, net: int) -> PullUps:
         """As the level rules see it: the lowest pull-up rail, and the parallel ohms on that rail."""

@@ -24,6 +24,7 @@ from collections.abc import Sequence
 
 import numpy as np
 
+from linter.electrical.expr import parse_expression
 from linter.electrical.family import LogicFamily
 from linter.electrical.family_loader import parse_family
 from linter.electrical.rail import Rail
@@ -110,10 +111,9 @@ def output_family_data(item: DividerItem, driver: LogicFamily, rail: Rail, high_
         "sources": {key: _SOURCE for key in _SOURCED},
     }
     # thresholds only keep the family valid (the pin never receives): a third of the way in
-    family = _family({**data, "vil_max": -1.0, "vih_min": 1e9, "input_max": 1e9})
     nominal = scaled.nominal
-    vol = family.vol_max_at(0.0, nominal).volts
-    voh = family.voh_min_at(0.0, nominal).volts
+    vol = parse_expression(data["vol_max"][0]["level"]).evaluate(nominal)
+    voh = parse_expression(data["voh_min"][0]["level"]).evaluate(nominal)
     if not vol < voh:
         return None
     data["vil_max"] = round(vol + (voh - vol) / 3, 6)

@@ -137,7 +137,7 @@ class _Writer:
         self.changes.packages.append(PackageChange(instance, key.scope, item.name, key.kind, key.rail_a, key.rail_b,
                                                    item.width, tuple(changes), kept))
         self.action(kind=kind, part=item.name, nets=bus_group(nets), side_a_rail=key.rail_a, side_b_rail=key.rail_b,
-                    receivers=tuple(sorted(set(receivers), key=natural_key)), bits_used=len(package),
+                    receivers=bus_group(set(receivers)), bits_used=len(package),
                     width=item.width, cost=money(item.cost), reason=reason, instance=instance)
 
     # ---- per-net choices ------------------------------------------------------------------------
@@ -164,7 +164,7 @@ class _Writer:
         still = f", {len(mode.units)} receivers still need a translator from {detail['rail']}" if mode.units else ""
         self.action(kind="pull-up", part=f"{detail['resistor']} ({detail['ohms']:g} ohm)", nets=(net.name,),
                     side_a_rail=detail["rail"], side_b_rail=None,
-                    receivers=tuple(sorted((self.label(u) for u in entry.failing), key=natural_key)), bits_used=0,
+                    receivers=bus_group(self.label(u) for u in entry.failing), bits_used=0,
                     width=0, cost=money(mode.cost),
                     reason=f"the open-drain driver only sinks: a pull-up to {detail['rail']} sets the high level; "
                            f"cheapest value that passes and meets the rise time{still}"
@@ -181,7 +181,7 @@ class _Writer:
         rest = "; ".join(sorted(self.alternatives(net.net))[:4])
         self.action(kind="divider", part=detail["item"], nets=(net.name,), side_a_rail=detail["source_rail"],
                     side_b_rail=detail["target_rail"],
-                    receivers=tuple(sorted((self.label(u) for u in option.covers), key=natural_key)), bits_used=1,
+                    receivers=bus_group(self.label(u) for u in option.covers), bits_used=1,
                     width=1, cost=money(option.cost), instance=instance,
                     reason="a slow high-to-low step: the divided level passes every served input"
                            + (f"; alternatives: {rest}" if rest else ""))
@@ -193,7 +193,7 @@ class _Writer:
         self.add_bom(f"{swap.family} -> {swap.replacement}", "replacement", swap.cost)
         nets = bus_group(self.ctx.net_name(int(self.ep.net[u])) for u in covered)
         self.action(kind="replacement", part=f"{swap.family} -> {swap.replacement}", nets=nets, side_a_rail=None,
-                    side_b_rail=None, receivers=tuple(self.label(u) for u in covered), bits_used=0, width=0,
+                    side_b_rail=None, receivers=bus_group(self.label(u) for u in covered), bits_used=0, width=0,
                     cost=money(swap.cost), instance=swap.name,
                     reason=f"rebuilding {swap.name} in {swap.replacement} fixes {len(covered)} failing input(s) "
                            "for less than the translator bits it saves")
@@ -225,12 +225,19 @@ class _Writer:
         problem = self.problem.nets[index]
         chosen = self.outcome.solution.modes.get(index, 0)
         notes = {f"{kind}: {reason}" for kind, reason in problem.rejected.items()}
+        picked = set(self.outcome.solution.options.get(index, ()))
         for m, mode in enumerate(problem.modes):
             if mode.name != "as-is" and m != chosen:
                 notes.add(f"{mode.name}: {money(mode.cost)}")
-            for option in mode.options:
+            for k, option in enumerate(mode.options):
+                if m == chosen and k in picked:
+                    continue
                 if option.kind == "divider":
                     notes.add(f"divider {option.detail['item']}: {money(option.cost)}")
+                elif option.bit_class is not None:
+                    items = [i for i in self.problem.items[option.bit_class.key] if i.name in option.bit_class.items]
+                    single = min(items, key=lambda i: (i.width, i.cost, i.name))
+                    notes.add(f"{option.kind} {single.name}: {money(single.cost + option.cost)}")
         cells = {self.problem.replacement_covers.get(u) for u in self.failing[net].failing} - {None}
         for cell in sorted(c for c in cells if c is not None):
             swap = self.problem.replaceable[cell]

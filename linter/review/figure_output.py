@@ -15,6 +15,7 @@ from contextlib import contextmanager
 from collections.abc import Iterator
 
 import matplotlib
+from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
 SVG_HASH_SALT = "levelcross-review"
@@ -47,8 +48,10 @@ def review_style() -> Iterator[None]:
 
 
 def new_figure(width_in: float, height_in: float) -> Figure:
-    """A figure on the Agg canvas (a bare Figure never touches a window system)."""
-    return Figure(figsize=(width_in, height_in), layout=None)
+    """A figure on the Agg canvas: no window system, no pyplot state shared between figures."""
+    figure = Figure(figsize=(width_in, height_in), layout=None)
+    FigureCanvasAgg(figure)
+    return figure
 
 
 def svg_text(figure: Figure) -> str:
