@@ -62,7 +62,7 @@ def shared_problem(ctx: PlanContext, failing: FailingNet) -> NetProblem:
             "bidirectional", frozenset(units), found["pull_up_cost"], BitClass(key, tuple(sorted(by_plan[plan_key]))),
             detail=found))
     if not by_plan:
-        reason = sorted(set(reasons.values()))[0] if reasons else "the catalogue has no bidirectional translator"
+        reason = min(set(reasons.values())) if reasons else "the catalogue has no bidirectional translator"
         problem.rejected["bidirectional translator"] = reason
         for unit in units:
             problem.unfixable[unit] = f"no bidirectional translator fits: {reason}"
@@ -78,7 +78,7 @@ def _kept_rail(ctx: PlanContext, failing: FailingNet, views: Sequence[EndpointVi
     if pulled in rails:
         return pulled
     counts = {rail: sum(1 for view in views if view.rail == rail) for rail in rails}
-    return sorted(rails, key=lambda rail: (-counts[rail], rail))[0]
+    return min(rails, key=lambda rail: (-counts[rail], rail))
 
 
 def _fit(ctx: PlanContext, failing: FailingNet, views: Sequence[EndpointView], item: TranslatorItem, rail_a: str,

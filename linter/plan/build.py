@@ -75,7 +75,7 @@ def _finish(problem: NetProblem, replacements: ReplacementAnalysis) -> NetProble
 
 def _why(problem: NetProblem) -> str:
     if problem.rejected:
-        kind, reason = sorted(problem.rejected.items())[0]
+        kind, reason = min(problem.rejected.items())
         return f"{kind}: {reason}"
     return "no catalogue item fits"
 

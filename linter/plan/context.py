@@ -60,6 +60,9 @@ class PlanContext:
         self._taken.update(graph.cell_names)
         self._new_names: dict[tuple[int, str], str] = {}
         self._scopes: dict[int, str] = {}
+        self._timing: dict[int, TimingNeed] = {}
+        self._requirements: dict[str, object] = {}
+        self.fit_cache: dict[tuple, tuple[tuple[str, ...], dict[str, str]]] = {}
 
     # ---- the design ------------------------------------------------------------------------
     @property
@@ -77,11 +80,16 @@ class PlanContext:
         return found
 
     def timing(self, net: int) -> TimingNeed:
-        return self.annotation.resolver.timing(self.net_name(net))
+        found = self._timing.get(net)
+        if found is None:
+            found = self._timing[net] = self.annotation.resolver.timing(self.net_name(net))
+        return found
 
     def required_v(self, net_name: str, source: Source) -> float:
         """The least margin a crossing on ``net_name`` must keep, at the source's swing."""
-        requirement = self.annotation.resolver.noise_margin(net_name)
+        requirement = self._requirements.get(net_name)
+        if requirement is None:
+            requirement = self._requirements[net_name] = self.annotation.resolver.noise_margin(net_name)
         return requirement.required_v(self.judge.rails[source.rail].nominal)
 
     def pull_ups(self, net: int) -> PullUps:
@@ -105,9 +113,6 @@ class PlanContext:
 
     def load(self, families: Sequence[str]) -> DcLoad:
         return self.judge.load_of(families)
-
-    def receiver_families(self, endpoints: Sequence[EndpointView], exclude: int = -1) -> list[str]:
-        return [e.family for e in endpoints if e.receives and e.family is not None and e.index != exclude]
 
     # ---- names of new nets -------------------------------------------------------------------
     def new_net_name(self, net: int, tag: str) -> str:

@@ -11,8 +11,6 @@ from __future__ import annotations
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
 
-import numpy as np
-
 from linter.annotate import Annotation, DriveKind
 from linter.checks.finding import Finding
 from linter.checks.rules.input_overvoltage import RULE_ID as OVERVOLTAGE_RULE
@@ -123,15 +121,3 @@ def net_scope(instance_paths: Iterable[str], name: str) -> str:
         if name.startswith(path + ".") and len(path) > len(best):
             best = path
     return best
-
-
-def receiver_load_families(annotation: Annotation, net: int, exclude: int) -> list[str]:
-    """Families of the receivers on ``net`` (other than endpoint ``exclude``) that draw a known current."""
-    ep = annotation.endpoints
-    return [ep.family_of(int(e)) for e in ep.of_net(net)
-            if ep.receives[e] and ep.family[e] >= 0 and int(e) != exclude]
-
-
-def endpoints_of_cell(annotation: Annotation, cell: int) -> np.ndarray:
-    """Endpoint indices of every pin of ``cell`` (pins are endpoints 0 .. pin_count-1)."""
-    return np.arange(annotation.graph.cell_pin_start[cell], annotation.graph.cell_pin_start[cell + 1])

@@ -76,8 +76,15 @@ class PatchedParts:
         return "".join(chunks)
 
 
+class _Dumper(yaml.SafeDumper):
+    """Plain YAML: a value used twice is written twice, never as an anchor and alias."""
+
+    def ignore_aliases(self, data) -> bool:
+        return True
+
+
 def _dump(header: str, data: dict) -> str:
-    return header + yaml.safe_dump(data, sort_keys=False, allow_unicode=True, width=100)
+    return header + yaml.dump(data, Dumper=_Dumper, sort_keys=False, allow_unicode=True, width=100)
 
 
 def render_parts(parts: PatchedParts, catalogue: Catalogue, annotation: Annotation) -> str:

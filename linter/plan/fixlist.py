@@ -41,6 +41,8 @@ class _Writer:
         self.changes = Changes()
         self.ep = ctx.annotation.endpoints
         self._instances: set[str] = set()
+        self.net_index = {p.net: i for i, p in enumerate(problem.nets)}
+        self._alternatives: dict[int, set[str]] = {}
 
     # ---- helpers -----------------------------------------------------------------------------
     def label(self, endpoint: int) -> str:
@@ -219,7 +221,12 @@ class _Writer:
 
     def alternatives(self, net: int) -> set[str]:
         """What else the planner weighed for this net: each option kind with its own cost, or why not."""
-        index = next((i for i, p in enumerate(self.problem.nets) if p.net == net), None)
+        if net not in self._alternatives:
+            self._alternatives[net] = self._weigh(net)
+        return self._alternatives[net]
+
+    def _weigh(self, net: int) -> set[str]:
+        index = self.net_index.get(net)
         if index is None:
             return set()
         problem = self.problem.nets[index]
@@ -242,8 +249,6 @@ class _Writer:
         for cell in sorted(c for c in cells if c is not None):
             swap = self.problem.replaceable[cell]
             notes.add(f"replace {swap.name} by {swap.replacement}: {money(swap.cost)}")
-        if not self.ctx.options.replaceable:
-            notes.add("replacement: no cell allowed (plan --replaceable)")
         return notes
 
 
@@ -254,6 +259,18 @@ def _packing_note(key: PackKey, packing: Packing, items: dict, bits: int, ctx: P
     where = f" in {key.scope}" if key.scope else ""
     return (f"cheapest packing of the {bits} bit(s) {key.rail_a} -> {key.rail_b}{where}: {parts} = "
             f"{money(packing.cost)}{single}")
+
+
+def _notes(ctx: PlanContext, problem: Problem) -> tuple[str, ...]:
+    notes = []
+    if "INVENTED" in ctx.catalogue.description.upper():
+        notes.append("the catalogue is INVENTED demo data: its parts, levels, speeds and prices are made up")
+    if ctx.catalogue.replacements and not ctx.options.replaceable:
+        notes.append("receiver replacements were not weighed: no cell is allowed to change (plan --replaceable GLOB)")
+    if any(len({key.scope for key in problem.items if (key.kind, key.rail_a, key.rail_b) == (k.kind, k.rail_a, k.rail_b)})
+           > 1 for k in problem.items):
+        notes.append("bits pack into one package only within one module instance of the netlist")
+    return tuple(notes)
 
 
 def build_fix_list(ctx: PlanContext, problem: Problem, outcome: Outcome, failing: Sequence[FailingNet],
@@ -291,5 +308,5 @@ def build_fix_list(ctx: PlanContext, problem: Problem, outcome: Outcome, failing
         optimal=outcome.optimal, cost=money(solution.cost), naive_cost=money(naive_milli),
         lower_bound=money(outcome.lower_bound), gap=round(outcome.gap, 6), failing_receivers=failing_count,
         fixed_receivers=failing_count - len(unfixable), actions=numbered, unfixable=tuple(unfixable), bom=bom,
-        caution=caution)
+        caution=caution, notes=_notes(ctx, problem))
     return report, changes

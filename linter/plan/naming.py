@@ -41,6 +41,6 @@ def bus_group(names: Iterable[str]) -> tuple[str, ...]:
     return tuple(text for _, text in sorted(grouped))
 
 
-def money(milli: int | float) -> float:
+def money(milli: float) -> float:
     """Thousandths of the cost unit as the unit, rounded to the thousandth."""
     return round(float(milli) / 1000.0, 3)

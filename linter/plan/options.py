@@ -67,23 +67,33 @@ def translator_reason(ctx: PlanContext, net: int, source: Source, served: Sequen
     for view in served:
         verdict = judge.verdict(output, sink(view), load_out, ctx.required_v(new_name, output), overload_fails=True)
         if verdict:
-            return f"its output does not drive {view.label} ({verdict})"
+            return f"its output does not drive {view.family} on {view.rail} ({verdict})"
     return None
 
 
 def translator_option(ctx: PlanContext, net: int, source: Source, served: Sequence[EndpointView], target: str,
                       staying: Sequence[str]) -> tuple[Option | None, str]:
     """The translator-bit option for one group, with the reason when no buffer item fits."""
-    fits: list[str] = []
-    reasons: dict[str, str] = {}
-    for item in ctx.catalogue.translators:
-        if item.kind != BUFFER:
-            continue
-        reason = translator_reason(ctx, net, source, served, target, item, staying)
-        if reason is None:
-            fits.append(item.name)
-        else:
-            reasons[item.name] = reason
+    need = ctx.timing(net)
+    name = ctx.net_name(net)
+    new_name = ctx.new_net_name(net, f"to_{target}")
+    situation = (source, target, tuple(sorted((v.family, v.rail) for v in served)), tuple(sorted(staying)),
+                 need.max_rate_hz, need.max_delay_s, ctx.required_v(name, source),
+                 ctx.required_v(new_name, Source(source.family, target)), ctx.judge.rails[target].nominal)
+    cached = ctx.fit_cache.get(situation)
+    if cached is None:
+        found: list[str] = []
+        why: dict[str, str] = {}
+        for item in ctx.catalogue.translators:
+            if item.kind != BUFFER:
+                continue
+            reason = translator_reason(ctx, net, source, served, target, item, staying)
+            if reason is None:
+                found.append(item.name)
+            else:
+                why[item.name] = reason
+        cached = ctx.fit_cache[situation] = (tuple(found), why)
+    fits, reasons = list(cached[0]), dict(cached[1])
     if not fits:
         return None, _summary(reasons)
     key = PackKey(BUFFER, source.rail, target, ctx.scope(net))
@@ -100,7 +110,7 @@ def _summary(reasons: dict[str, str]) -> str:
     counts: dict[str, int] = {}
     for reason in reasons.values():
         counts[reason] = counts.get(reason, 0) + 1
-    best = sorted(counts.items(), key=lambda item: (-item[1], item[0]))[0][0]
+    best = min(counts.items(), key=lambda item: (-item[1], item[0]))[0]
     return f"no buffer translator fits: {best}" + (f" (and {len(counts) - 1} other reasons)" if len(counts) > 1 else "")
 
 
@@ -123,8 +133,16 @@ def group_options(ctx: PlanContext, failing: FailingNet, source: Source, units: 
         if option is not None:
             options.append(option)
         else:
+            # one bit cannot drive them all (its output's load, say): try one bit per receiver
+            for view in served if len(served) > 1 else ():
+                single, _ = translator_option(ctx, failing.net, source, [view], rail, staying)
+                if single is not None:
+                    single.detail["new_net"] = ctx.new_net_name(failing.net, f"to_{rail}_{view.index}")
+                    options.append(single)
+            covered = {unit for option in options for unit in option.covers}
             for view in served:
-                reasons[view.index] = reason
+                if view.index not in covered:
+                    reasons[view.index] = reason
         options.extend(divider_options(ctx, failing.net, source, served, rail, staying))
     return options, reasons
 
@@ -173,7 +191,7 @@ def pull_up_modes(ctx: PlanContext, failing: FailingNet, driver: EndpointView, r
         source = Source(driver.family, rail, open_drain=True, pulled=True, pullup_ohm=resistor.ohms)
         options, reasons = group_options(ctx, failing, source, still, receivers)
         if reasons:
-            problem.rejected[f"pull-up to {rail}"] = "receivers would still fail: " + sorted(set(reasons.values()))[0]
+            problem.rejected[f"pull-up to {rail}"] = "receivers would still fail: " + min(set(reasons.values()))
             continue
         modes.append(Mode(f"pull-up to {rail}", resistor.cost_milli, tuple(still), options,
                           {"source": source, "resistor": resistor.name, "ohms": resistor.ohms, "rail": rail}))

@@ -23,7 +23,13 @@ from pathlib import Path
 from linter.annotate import Annotation
 from linter.output import write_atomic
 from linter.plan.catalogue import BIDIRECTIONAL, Catalogue
-from linter.plan.design_edit import PatchedParts, plan_replacements, render_design, render_families, render_parts
+from linter.plan.design_edit import (
+    PatchedParts,
+    plan_replacements,
+    render_design,
+    render_families,
+    render_parts,
+)
 from linter.plan.model import BitChange, Plan
 from linter.plan.verilog_edit import NetlistEditor, Site, patch_error
 

@@ -48,7 +48,7 @@ def glue_families(ctx: PlanContext, movable: Sequence[int]) -> dict[str, str]:
         entry = counts.setdefault(rails[rail], {})
         moving, other = entry.get(names[family], (0, 0))
         entry[names[family]] = (moving + (cell in movable_set), other + (cell not in movable_set))
-    return {rail: sorted(found.items(), key=lambda kv: (-kv[1][0], -kv[1][1], kv[0]))[0][0]
+    return {rail: min(found.items(), key=lambda kv: (-kv[1][0], -kv[1][1], kv[0]))[0]
             for rail, found in sorted(counts.items())}
 
 
@@ -93,17 +93,18 @@ def build_region(ctx: PlanContext, failing: Sequence[FailingNet]) -> tuple[Rehom
     families = glue_families(ctx, movable)
     flagged = {entry.net: set(entry.failing) for entry in failing}
     kept: list[int] = []
+    pairs: list[RehomePair] = []
     for component in _components(ctx, movable):
-        pairs = _pairs(ctx, component, families, flagged, set(component))
-        if all(_current_feasible(pair, annotation_rails(ctx, component)) for pair in pairs):
+        found = _pairs(ctx, component, families, flagged, set(component))
+        if all(_current_feasible(pair, annotation_rails(ctx, component)) for pair in found):
             kept.extend(component)
+            pairs.extend(found)  # components share no net, so their pairs are the region's
     if not kept:
         return None, set()
-    kept_set = set(kept)
     rails = annotation_rails(ctx, kept)
     cells = {c: (rails[c],) + tuple(r for r in sorted(families) if r != rails[c]) for c in sorted(kept)}
     cell_families = {c: {r: (_family(ctx, c) if r == rails[c] else families[r]) for r in cells[c]} for c in cells}
-    pairs = _pairs(ctx, sorted(kept), families, flagged, kept_set)
+    pairs.sort(key=lambda pair: (pair.net, pair.receiver))
     nets = {pair.net for pair in pairs}
     region = RehomeRegion(cells, {c: graph.cell_names[c] for c in cells}, cell_families, pairs)
     return region, nets

@@ -36,10 +36,6 @@ class Solution:
     cost: int
     fixed_cost: int  # everything but packages
 
-    @property
-    def package_cost(self) -> int:
-        return self.cost - self.fixed_cost
-
 
 class Infeasible(Exception):
     """The choices leave a failing receiver uncovered, or need a fix that does not exist."""

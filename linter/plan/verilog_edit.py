@@ -89,9 +89,10 @@ class NetlistEditor:
     def _walk(self, instance: ast.InstanceSymbol, path: str) -> None:
         self.instances[path] = instance
         for member in instance.body:
-            if member.kind == ast.SymbolKind.Instance and member.isModule and f"{path}.{member.name}" not in self.instances:
-                if member.definition.name not in self.design.parts:
-                    self._walk(member, f"{path}.{member.name}")
+            child = f"{path}.{member.name}"
+            if (member.kind == ast.SymbolKind.Instance and member.isModule and child not in self.instances
+                    and member.definition.name not in self.design.parts):
+                self._walk(member, child)
 
     def _member(self, scope: str, local: str):
         instance = self.instances.get(scope)
@@ -214,7 +215,7 @@ class NetlistEditor:
         statement = member.syntax.parent
         if len([i for i in statement.instances if hasattr(i, "decl")]) != 1:
             raise patch_error(f"instance {scope} shares its statement with others; split it to patch")
-        file, start, end = self._range(statement.type.range, scope)
+        _, start, end = self._range(statement.type.range, scope)
         self.add(parent_key, parent, start, end, copy)
         return copy
 

@@ -18,8 +18,8 @@ def render_plan_markdown(report: PlanReport) -> str:
     lines += [
         "| total | naive plan | saving | lower bound | gap | method |",
         "| ---: | ---: | ---: | ---: | ---: | --- |",
-        f"| {report.cost:.3f} {unit} | {report.naive_cost:.3f} {unit} | {report.saving:.3f} "
-        f"({report.saving_percent:g} %) | {report.lower_bound:.3f} {unit} | {report.gap:.2%} | {_cell(report.method)} |",
+        (f"| {report.cost:.3f} {unit} | {report.naive_cost:.3f} {unit} | {report.saving:.3f} "
+        f"({report.saving_percent:g} %) | {report.lower_bound:.3f} {unit} | {report.gap:.2%} | {_cell(report.method)} |"),
         "",
         f"{report.fixed_receivers} of {report.failing_receivers} failing receiver(s) fixed.",
         "",

@@ -40,7 +40,7 @@ def _run(script: str, folder: Path, timeout: int = 900) -> str:
 
 
 _GATE_ARRAY = re.compile(r"\b(and|nand|or|nor|xor|xnor|buf|not)\s+(\w+)\s*\[(\d+)\s*:\s*(\d+)\]\s*\(([^;]*)\)\s*;")
-_MODULE = re.compile(r"\bmodule\b.*?\bendmodule\b", re.S)
+_MODULE = re.compile(r"\bmodule\b.*?\bendmodule\b", re.DOTALL)
 
 
 def expand_gate_arrays(text: str) -> str:

@@ -21,7 +21,7 @@ from linter.plan.patch import apply_plan, output_paths
 from tests.plan.conftest import CTRL_BOARD, NO_YOSYS, fixed_findings, fixture, plan_of
 from tests.plan.equivalence import prove_equivalent
 
-CASES = ["fork", "bus8", "glue", "bidir", "pullup", "timing", "divider"]
+CASES = ["fork", "bus8", "glue", "bidir", "pullup", "timing", "divider", "port_out", "twice"]
 # a bidirectional translator has no single-direction model: its stub stays a black box
 EQUIVALENCE_CASES = [case for case in CASES if case != "bidir"]
 
@@ -44,6 +44,15 @@ def test_patched_replacement_rechecks_clean(tmp_path):
     _apply(fixture("replace"), tmp_path / "out.v", replaceable=("replace_top.u_cmos",))
     text = (tmp_path / "out.design.yaml").read_text()
     assert "replace_top.u_cmos:" in text and "family: CMOS5-TTLIN" in text
+    assert fixed_findings(tmp_path / "out.design.yaml") == []
+
+
+def test_patched_part_replacement_uses_a_part_variant(tmp_path):
+    _apply(fixture("replace_part"), tmp_path / "out.v", replaceable=("replace_part_top.u_cmos",))
+    design = (tmp_path / "out.design.yaml").read_text()
+    assert "replace_part_top.u_cmos:\n    rail: VCC5V0\n    part: rcv1_cmos5__cmos5_ttlin" in design
+    parts = (tmp_path / "out.parts.yaml").read_text()
+    assert "rcv1_cmos5__cmos5_ttlin:" in parts and "family: CMOS5-TTLIN" in parts
     assert fixed_findings(tmp_path / "out.design.yaml") == []
 
 
@@ -115,6 +124,23 @@ def test_patched_netlist_keeps_the_original_modules_and_adds_the_stubs(tmp_path)
     design = (tmp_path / "out.design.yaml").read_text()
     assert "glue_top.u_lx1:\n    rails:\n      VCCA: VCC1V8\n      VCCB: VCC3V3" in design
     assert "glue_top.u_glue.g1:\n    family: LVCMOS33\n    rail: VCC3V3" in design
+
+
+def test_served_output_ports_keep_their_names_and_the_driver_side_is_renamed(tmp_path):
+    """A port cannot be renamed: the translator drives the port's net, the driver gets a new one."""
+    _apply(fixture("port_out"), tmp_path / "out.v")
+    text = (tmp_path / "out.v").read_text()
+    assert "drv1 u_src (.Q(out_src));" in text and "rcv1 u_r (.D(out2_src));" in text
+    assert "up_buf_2 u_lx1 (.A({out2_src, out_src}), .B({out2, out}));" in text
+
+
+def test_a_module_used_twice_is_copied_for_each_instance_it_changes(tmp_path):
+    _apply(fixture("twice"), tmp_path / "out.v")
+    text = (tmp_path / "out.v").read_text()
+    assert "cell2__lx_edge_top_u1 u1 (.a(i1), .y(o1));" in text
+    assert "module cell2__lx_edge_top_u2 (input a, output y);" in text
+    design = (tmp_path / "out.design.yaml").read_text()
+    assert "  cell2__lx_edge_top_u1:\n    family: LVCMOS33\n    rail: VCC3V3" in design
 
 
 def test_apply_refuses_to_overwrite_an_input(tmp_path, capsys):

@@ -5,7 +5,12 @@ from __future__ import annotations
 import pytest
 
 from linter.errors import InputError
-from linter.plan.catalogue import BIDIRECTIONAL, BUFFER, default_catalogue_path, load_catalogue
+from linter.plan.catalogue import (
+    BIDIRECTIONAL,
+    BUFFER,
+    default_catalogue_path,
+    load_catalogue,
+)
 
 GOOD_SIDE = "{minimum: 1.1, maximum: 3.6, family: LX-IN}"
 
@@ -36,19 +41,19 @@ def _line_of(path, needle: str) -> int:
 
 
 @pytest.mark.parametrize(("body", "needle", "message"), [
-    (f"translators:\n  t1: {{kind: buffer, width: 3, cost: 0.4, delay_s: 1e-9, max_rate_hz: 1e6, "
-     f"side_a: {GOOD_SIDE}, side_b: {GOOD_SIDE}}}\n", "width: 3", "width must be one of 1, 2, 4, 8, 16, 32, got 3"),
-    (f"translators:\n  t1: {{kind: buffer, width: 1, cost: 0.4001, delay_s: 1e-9, max_rate_hz: 1e6, "
-     f"side_a: {GOOD_SIDE}, side_b: {GOOD_SIDE}}}\n", "0.4001", "cost must have at most three decimals"),
-    (f"translators:\n  t1: {{kind: buffer, width: 1, cost: 0.4, delay_s: 1e-9, max_rate_hz: 1e6, "
-     f"side_a: {{minimum: 1.1, maximum: 3.6, family: NOPE}}, side_b: {GOOD_SIDE}}}\n", "NOPE",
+    ((f"translators:\n  t1: {{kind: buffer, width: 3, cost: 0.4, delay_s: 1e-9, max_rate_hz: 1e6, "
+     f"side_a: {GOOD_SIDE}, side_b: {GOOD_SIDE}}}\n"), "width: 3", "width must be one of 1, 2, 4, 8, 16, 32, got 3"),
+    ((f"translators:\n  t1: {{kind: buffer, width: 1, cost: 0.4001, delay_s: 1e-9, max_rate_hz: 1e6, "
+     f"side_a: {GOOD_SIDE}, side_b: {GOOD_SIDE}}}\n"), "0.4001", "cost must have at most three decimals"),
+    ((f"translators:\n  t1: {{kind: buffer, width: 1, cost: 0.4, delay_s: 1e-9, max_rate_hz: 1e6, "
+     f"side_a: {{minimum: 1.1, maximum: 3.6, family: NOPE}}, side_b: {GOOD_SIDE}}}\n"), "NOPE",
      "names family 'NOPE', which the catalogue's families do not define"),
-    (f"translators:\n  t1: {{kind: buffer, width: 1, cost: 0.4, delay_s: 1e-9, max_rate_hz: 1e6, open_drain: true, "
-     f"side_a: {GOOD_SIDE}, side_b: {GOOD_SIDE}}}\n", "open_drain", "open_drain applies to bidirectional"),
-    (f"translators:\n  t1: {{kind: sideways, width: 1, cost: 0.4, delay_s: 1e-9, max_rate_hz: 1e6, "
-     f"side_a: {GOOD_SIDE}, side_b: {GOOD_SIDE}}}\n", "sideways", "kind must be one of bidirectional, buffer"),
-    (f"translators:\n  t1: {{kind: buffer, width: 1, cost: 0.4, delay_s: 1e-9, max_rate_hz: 1e6, price: 1, "
-     f"side_a: {GOOD_SIDE}, side_b: {GOOD_SIDE}}}\n", "price: 1", "unknown key 'price'"),
+    ((f"translators:\n  t1: {{kind: buffer, width: 1, cost: 0.4, delay_s: 1e-9, max_rate_hz: 1e6, open_drain: true, "
+     f"side_a: {GOOD_SIDE}, side_b: {GOOD_SIDE}}}\n"), "open_drain", "open_drain applies to bidirectional"),
+    ((f"translators:\n  t1: {{kind: sideways, width: 1, cost: 0.4, delay_s: 1e-9, max_rate_hz: 1e6, "
+     f"side_a: {GOOD_SIDE}, side_b: {GOOD_SIDE}}}\n"), "sideways", "kind must be one of bidirectional, buffer"),
+    ((f"translators:\n  t1: {{kind: buffer, width: 1, cost: 0.4, delay_s: 1e-9, max_rate_hz: 1e6, price: 1, "
+     f"side_a: {GOOD_SIDE}, side_b: {GOOD_SIDE}}}\n"), "price: 1", "unknown key 'price'"),
 ])
 def test_mistakes_name_file_line_and_column(tmp_path, body, needle, message):
     path = _write(tmp_path, body)

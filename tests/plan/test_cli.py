@@ -52,10 +52,20 @@ def test_json_is_deterministic_and_not_polluted_by_the_solver(capsys):
 def test_exit_code_is_one_when_a_crossing_is_unfixable(capsys):
     code, out, _ = _run(capsys, str(fixture("replace")), "--format", "csv")
     assert code == 1
-    assert out.splitlines() == ["number,kind,part,nets,side_a_rail,side_b_rail,receivers,bits_used,width,cost,"
-                                "instance,reason"]
+    assert out.splitlines() == [("number,kind,part,nets,side_a_rail,side_b_rail,receivers,bits_used,width,cost,"
+                                "instance,reason")]
     code, _, _ = _run(capsys, str(fixture("replace")), "--replaceable", "replace_top.u_*")
     assert code == 0
+
+
+def test_apply_with_an_unfixable_crossing_writes_the_partial_fix_and_exits_one(capsys, tmp_path):
+    code, out, _ = _run(capsys, str(fixture("replace")), "--apply", str(tmp_path / "out.v"), "--format", "json")
+    assert code == 1
+    document = json.loads(out)
+    assert document["totals"]["unfixable_receivers"] == 1
+    assert document["outputs"] == [str(tmp_path / "out.parts.yaml"), str(tmp_path / "out.v"),
+                                   str(tmp_path / "out.design.yaml")]
+    assert (tmp_path / "out.v").is_file()
 
 
 def test_output_file_is_written_whole(capsys, tmp_path):

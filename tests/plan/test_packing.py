@@ -10,7 +10,12 @@ import itertools
 
 import pytest
 
-from linter.plan.packing import cover_table, pack_bits, pack_classes, packing_lower_bound
+from linter.plan.packing import (
+    cover_table,
+    pack_bits,
+    pack_classes,
+    packing_lower_bound,
+)
 from linter.plan.problem import Item
 
 UP = [Item("up_buf_1", 1, 400), Item("up_buf_16", 16, 1600), Item("up_buf_2", 2, 550), Item("up_buf_4", 4, 700),

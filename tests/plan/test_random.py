@@ -30,11 +30,21 @@ from tests.plan.random_designs import random_designs
 SETTINGS = settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
 
 
+_PACKED: dict = {}
+
+
 def _brute_packing(items, demand: dict[tuple[str, ...], int]) -> int:
+    key = (tuple(items), tuple(sorted(demand.items())))
+    if key not in _PACKED:
+        _PACKED[key] = _enumerate_packing(items, demand)
+    return _PACKED[key]
+
+
+def _enumerate_packing(items, demand: dict[tuple[str, ...], int]) -> int:
     total = sum(demand.values())
     if total == 0:
         return 0
-    ranges = [range(0, math.ceil(total / item.width) + 1) for item in items]
+    ranges = [range(math.ceil(total / item.width) + 1) for item in items]
     best = None
     for counts in itertools.product(*ranges):
         capacity = {item.name: c * item.width for item, c in zip(items, counts, strict=True)}
@@ -154,8 +164,9 @@ def test_patched_random_design_rechecks_clean(tmp_path_factory, design):
     folder = tmp_path_factory.mktemp("rnd")
     path = design.write(folder / "in")
     plan, annotation = plan_of(path)
+    (folder / "out").mkdir()
     apply_plan(plan, annotation, load_catalogue(default_catalogue_path(), load_design(path).families),
-               folder / "out" / "rnd_fixed.v") if (folder / "out").mkdir() is None else None
+               folder / "out" / "rnd_fixed.v")
     left = fixed_findings(folder / "out" / "rnd_fixed.design.yaml")
     unfixed = {u.net for u in plan.report.unfixable}
     assert [finding for finding in left if finding[1] not in unfixed] == []
