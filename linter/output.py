@@ -46,3 +46,12 @@ def _umask() -> int:
     current = os.umask(0)
     os.umask(current)
     return current
+
+
+def display_path(path: str | os.PathLike[str]) -> str:
+    """A path as a report shows it: relative to the working folder when it lies below it."""
+    resolved = Path(path).resolve()
+    try:
+        return str(resolved.relative_to(Path.cwd().resolve()))
+    except ValueError:
+        return str(path)

@@ -10,6 +10,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import replace
 
+from linter.output import display_path
 from linter.plan.catalogue import BIDIRECTIONAL
 from linter.plan.context import PlanContext
 from linter.plan.crossings import FailingNet
@@ -303,7 +304,7 @@ def build_fix_list(ctx: PlanContext, problem: Problem, outcome: Outcome, failing
     report = PlanReport(
         tool_version=tool_version, design=ctx.annotation.graph.top,
         design_file=None if str(design.path).startswith("<") else str(design.path),
-        catalogue=str(ctx.catalogue.path), catalogue_description=ctx.catalogue.description,
+        catalogue=display_path(ctx.catalogue.path), catalogue_description=ctx.catalogue.description,
         cost_unit=ctx.catalogue.cost_unit, method=outcome.method, solver_status=outcome.status,
         optimal=outcome.optimal, cost=money(solution.cost), naive_cost=money(naive_milli),
         lower_bound=money(outcome.lower_bound), gap=round(outcome.gap, 6), failing_receivers=failing_count,

@@ -11,6 +11,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from pathlib import Path
 
+from linter.output import display_path
 from linter.annotate import Annotation
 from linter.checks.finding import Finding
 from linter.review.data import PlanSummary
@@ -31,7 +32,7 @@ def plan_summary(annotation: Annotation, findings: Sequence[Finding], catalogue_
         available=True, total_cost=report.cost, naive_cost=report.naive_cost, fixes=len(report.actions),
         cost_unit=report.cost_unit, lower_bound=report.lower_bound, optimal=report.optimal,
         fixed_receivers=report.fixed_receivers, failing_receivers=report.failing_receivers,
-        unfixable=len(report.unfixable), catalogue=str(path),
+        unfixable=len(report.unfixable), catalogue=display_path(path),
         note="Default planner options; 'levelcross plan' lists every fix and its reason.")
 
 
