@@ -8,33 +8,24 @@ template are local: bits ``0 .. len(net_names)-1``, cells and pins in their own 
 from __future__ import annotations
 
 import re
-from dataclasses import dataclass, field
-from typing import NamedTuple
 
-from pyslang import ast, syntax
+from pyslang import ast
 
-from linter.errors import SourceLocation
-from linter.netlist.expressions import EK, BitResolver, SymbolBits, UnsupportedExpression
+from linter.netlist.bit_layout import bit_names, bit_width, TypeShape
+from linter.netlist.expressions import BitResolver, SymbolBits, UnsupportedExpression
 from linter.netlist.graph import CONST0, CONST1, ArcMode, CellClass, PinDirection
+from linter.netlist.instances import InstanceCells, is_blackbox_body
 from linter.netlist.locations import LocationTable
+from linter.netlist.processes import ProcessCells
+from linter.netlist.template_model import PORT_DIRECTION, SK, ChildLink, PortInfo, Template, verilog_name
 
-SK = ast.SymbolKind
-_SIMPLE_NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_$]*\Z")
-# Timing-only cell models (ports plus a specify block) are black boxes too: a specify block holds
-# path delays, no logic, and flattening such a cell would leave its outputs undriven.
-_BLACKBOX_MEMBERS = {SK.Port, SK.Net, SK.Variable, SK.Parameter, SK.TypeParameter, SK.TypeAlias, SK.Genvar,
-                     SK.SpecifyBlock, SK.Specparam}
+__all__ = ["ChildLink", "PortInfo", "Template", "TemplateBuilder", "is_blackbox_body", "verilog_name"]
+
 _PRIMITIVE_DIRECTION = {
     ast.PrimitivePortDirection.In: PinDirection.IN,
     ast.PrimitivePortDirection.Out: PinDirection.OUT,
     ast.PrimitivePortDirection.OutReg: PinDirection.OUT,
     ast.PrimitivePortDirection.InOut: PinDirection.INOUT,
-}
-_PORT_DIRECTION = {
-    ast.ArgumentDirection.In: PinDirection.IN,
-    ast.ArgumentDirection.Out: PinDirection.OUT,
-    ast.ArgumentDirection.InOut: PinDirection.INOUT,
-    ast.ArgumentDirection.Ref: PinDirection.INOUT,
 }
 _PULL_GATES = {"pullup", "pulldown"}
 _SUPPLY_CONSTANT = {ast.NetType.NetKind.Supply0: CONST0, ast.NetType.NetKind.Supply1: CONST1}
@@ -42,69 +33,8 @@ _PATH_PART = re.compile(r"\\(\S+) ?|([^.\\]+)")
 _TERMINAL_NAMES = [f"t{i}" for i in range(16)]
 
 
-def verilog_name(name: str) -> str:
-    """A name as Verilog writes it: escaped (``\\a.b``, without the trailing space) if not simple."""
-    return name if _SIMPLE_NAME.match(name) else "\\" + name
 
-
-@dataclass
-class PortInfo:
-    name: str
-    direction: PinDirection
-    bits: list[int]
-    msb: int
-    lsb: int
-    location: SourceLocation
-
-
-@dataclass
-class ChildLink:
-    """A child instance with a real body: its bits merge with the parent's through its ports."""
-
-    name: str
-    body: ast.InstanceBodySymbol
-    links: list[tuple[str, list[int]]]  # (child port name, parent local bits, LSB first)
-
-
-@dataclass
-class Template:
-    """Everything one module body contributes, in local ids."""
-
-    module: str
-    net_names: list[str] = field(default_factory=list)
-    net_location: list[int] = field(default_factory=list)  # LocationTable ids
-    ports: list[PortInfo] = field(default_factory=list)
-    alias_a: list[int] = field(default_factory=list)
-    alias_b: list[int] = field(default_factory=list)
-    ties: list[tuple[int, int]] = field(default_factory=list)  # (bit, constant)
-    cell_names: list[str] = field(default_factory=list)
-    cell_kinds: list[str] = field(default_factory=list)
-    cell_class: list[int] = field(default_factory=list)
-    cell_arc_mode: list[int] = field(default_factory=list)
-    cell_location: list[int] = field(default_factory=list)
-    cell_pin_start: list[int] = field(default_factory=lambda: [0])
-    pin_net: list[int] = field(default_factory=list)
-    pin_direction: list[int] = field(default_factory=list)
-    pin_names: list[str] = field(default_factory=list)
-    arc_from_pin: list[int] = field(default_factory=list)
-    arc_to_pin: list[int] = field(default_factory=list)
-    children: list[ChildLink] = field(default_factory=list)
-    unknown_cells: list[int] = field(default_factory=list)
-    warnings: list[str] = field(default_factory=list)
-
-    def port_bits(self, name: str) -> list[int] | None:
-        for port in self.ports:
-            if port.name == name:
-                return port.bits
-        return None
-
-
-def is_blackbox_body(body: ast.InstanceBodySymbol) -> bool:
-    """A body with ports and declarations but no logic: its pins are all we can know."""
-    return all(member.kind in _BLACKBOX_MEMBERS for member in body)
-
-
-class TemplateBuilder:
+class TemplateBuilder(InstanceCells, ProcessCells):
     """Walks one body. ``leaf_modules`` names modules to keep as leaf cells even if they have a body."""
 
     def __init__(self, body: ast.InstanceBodySymbol, locations: LocationTable, leaf_modules: frozenset[str]) -> None:
@@ -116,7 +46,7 @@ class TemplateBuilder:
         # alive, which ``_alive`` guarantees
         self.symbols: dict[int, SymbolBits] = {}
         self._alive: list[object] = []
-        self._shapes: dict[int, _TypeShape] = {}
+        self._shapes: dict[int, TypeShape] = {}
         self._supplies: dict[int, int | None] = {}
         self.resolver = BitResolver(self._symbol_bits)
         self._body_path_length = len(body.hierarchicalPath) + 1
@@ -130,7 +60,7 @@ class TemplateBuilder:
         width = shape.width
         base = len(t.net_names)
         info = SymbolBits(base, width, shape.lower, shape.upper, shape.descending)
-        t.net_names.extend(_bit_names(name, shape))
+        t.net_names.extend(bit_names(name, shape))
         t.net_location.extend([self.locations.intern(symbol.location)] * width)
         if symbol.kind == SK.Net:
             # supply0 / supply1 nets are driven by the rail itself; without a tie every gate
@@ -142,12 +72,12 @@ class TemplateBuilder:
         self._alive.append(symbol)
         return info
 
-    def _shape_of(self, symbol_type: object) -> _TypeShape:
+    def _shape_of(self, symbol_type: object) -> TypeShape:
         """The bit layout of a type; the many nets of one type share one wrapper, so cache by id."""
         shape = self._shapes.get(id(symbol_type))
         if shape is None:
             declared = symbol_type.fixedRange
-            shape = _TypeShape(_bit_width(symbol_type), declared.lower, declared.upper,
+            shape = TypeShape(bit_width(symbol_type), declared.lower, declared.upper,
                                declared.left >= declared.right, declared.width,
                                symbol_type.isPackedArray or symbol_type.isUnpackedArray)
             self._shapes[id(symbol_type)] = shape
@@ -184,7 +114,7 @@ class TemplateBuilder:
         if port_type is not None and port_type.bitWidth == width:
             # These bits merge with the child's port net of the same name; numbering them by its
             # declared range keeps ``u.d[3]`` one bit, not the LSB here and the MSB in the child.
-            t.net_names.extend(_bit_names(name, self._shape_of(port_type)))
+            t.net_names.extend(bit_names(name, self._shape_of(port_type)))
         else:
             t.net_names.extend([name] if width == 1 else [f"{name}[{i}]" for i in range(width)])
         t.net_location.extend([location] * width)
@@ -206,7 +136,7 @@ class TemplateBuilder:
             info = self.symbols.get(id(internal)) or self._allocate(internal, verilog_name(internal.name))
             msb, lsb = (info.upper, info.lower) if info.descending else (info.lower, info.upper)
             bits = list(range(info.base, info.base + info.width))
-            self.template.ports.append(PortInfo(port.name, _PORT_DIRECTION[port.direction], bits, msb, lsb, where))
+            self.template.ports.append(PortInfo(port.name, PORT_DIRECTION[port.direction], bits, msb, lsb, where))
 
     def _scope(self, scope: ast.Symbol, prefix: str) -> None:
         members = list(scope)
@@ -363,224 +293,3 @@ class TemplateBuilder:
                     t.arc_from_pin.append(input_pin[bit])
                     t.arc_to_pin.append(output)
         self._end_cell()
-
-    # ---- instances ------------------------------------------------------------------------------
-    def _connection_bits(self, expression: ast.Expression | None, name: str, width: int, where: object,
-                         port_type: object = None) -> list[int]:
-        """The parent bits a port connection names; a computed input gets a cell of its own.
-
-        ``port_type``, the type of a child port with a body, names the computed bits like it.
-        """
-        if expression is None or expression.kind == EK.EmptyArgument:
-            return []
-        target = expression.left if expression.kind == EK.Assignment else expression
-        if target.kind == EK.EmptyArgument:
-            return []
-        bits = self.resolver.bits(target)
-        if bits is not None:
-            return bits
-        fresh = self._fresh_bits(name, target.type.bitWidth, self.locations.intern(where), port_type)
-        self._logic_cell(f"{name}$expr", "assign", CellClass.ASSIGN, fresh,
-                         self.resolver.dependencies(target), target.sourceRange.start)
-        return fresh
-
-    def _is_blackbox(self, instance: ast.Symbol) -> bool:
-        if instance.definition.name in self.leaf_modules:
-            return True
-        body = instance.canonicalBody or instance.body
-        known = self._blackbox_cache.get(body)
-        if known is None:
-            known = self._blackbox_cache[body] = is_blackbox_body(body)
-        return known
-
-    def _instance(self, instance: ast.Symbol, name: str) -> None:
-        if not instance.isModule:
-            where = self.locations.location(instance.location)
-            self.template.warnings.append(f"{where}: warning: interface instance '{name}' is not supported; skipped")
-            return
-        if self._is_blackbox(instance):
-            self._blackbox(instance, name)
-            return
-        links = []
-        for connection in instance.portConnections:
-            port = connection.port
-            if port.kind != SK.Port:
-                where = self.locations.location(instance.location)
-                self.template.warnings.append(f"{where}: warning: port '{port.name}' of '{name}' is not supported; left unconnected")
-                continue
-            width = port.type.bitWidth
-            bits = self._connection_bits(connection.expression, f"{name}.{verilog_name(port.name)}", width,
-                                         instance.location, port.type)
-            if bits:
-                links.append((port.name, bits))
-        self.template.children.append(ChildLink(name, instance.canonicalBody or instance.body, links))
-
-    def _blackbox(self, instance: ast.Symbol, name: str) -> None:
-        pins: list[tuple[list[int], int, str]] = []
-        for connection in instance.portConnections:
-            port = connection.port
-            direction = _PORT_DIRECTION.get(port.direction, PinDirection.INOUT)
-            width = port.type.bitWidth
-            pin_name = verilog_name(port.name)
-            bits = self._connection_bits(connection.expression, f"{name}.{pin_name}", width, instance.location)
-            if not bits:  # unconnected: a net of its own, so a floating input is visible
-                bits = self._fresh_bits(f"{name}.{pin_name}", width, self.locations.intern(instance.location))
-            pins.append((bits[:width], direction, pin_name))
-        self._begin_cell(name, instance.definition.name, CellClass.BLACKBOX, ArcMode.FULL, instance.location)
-        for bits, direction, pin_name in pins:
-            for offset, bit in enumerate(bits):
-                self._pin(bit, direction, pin_name if len(bits) == 1 else f"{pin_name}[{offset}]")
-        self._end_cell()
-
-    def _array(self, array: ast.Symbol, name: str) -> None:
-        for element in array.elements:
-            index = "][".join(str(i) for i in element.arrayPath)
-            element_name = f"{name}[{index}]"
-            if element.kind == SK.PrimitiveInstance:
-                self._primitive(element, element_name)
-            elif element.kind == SK.Instance:
-                self._instance(element, element_name)
-            elif element.kind == SK.InstanceArray:
-                self._array(element, element_name)
-
-    def _undefined(self, instance: ast.Symbol, name: str) -> None:
-        """An instance of a module nobody defined: pins without directions, reported as unknown."""
-        names = list(instance.portNames)
-        positions = _ordered_positions(instance)
-        pins = []
-        for index, connection in enumerate(instance.portConnections):
-            position = positions[index] if index < len(positions) else index
-            pin_name = verilog_name(names[index]) if index < len(names) and names[index] else f"#{position}"
-            expression = getattr(connection, "expr", None)
-            bits = self._connection_bits(expression, f"{name}.{pin_name}", 1, instance.location) if expression else []
-            pins.append((bits, pin_name))
-        cell = self._begin_cell(name, instance.definitionName, CellClass.BLACKBOX, ArcMode.FULL, instance.location)
-        for bits, pin_name in pins:
-            for offset, bit in enumerate(bits):
-                self._pin(bit, PinDirection.UNKNOWN, pin_name if len(bits) == 1 else f"{pin_name}[{offset}]")
-        self._end_cell()
-        self.template.unknown_cells.append(cell)
-
-    # ---- processes ------------------------------------------------------------------------------
-    def _process(self, block: ast.Symbol, prefix: str) -> None:
-        kinds = ast.ProceduralBlockKind
-        if block.procedureKind in (kinds.Initial, kinds.Final):
-            return  # simulation only: no hardware
-        sequential = block.procedureKind == kinds.AlwaysFF or _is_edge_triggered(block.body)
-        written: dict[int, None] = {}
-        read: set[int] = set()
-        resolver = self.resolver
-
-        def visit(node: object) -> object:
-            if isinstance(node, ast.Expression):
-                if node.kind == EK.Assignment:
-                    try:
-                        targets = resolver.bits(node.left) or ()
-                    except UnsupportedExpression:
-                        # a write through a computed index (mem[i] <= d) may reach any bit of
-                        # what it selects from, and reads the index; dropping the whole process
-                        # instead would leave all its outputs undriven
-                        targets = _selected_from(resolver, node.left)
-                        read.update(resolver.reads(node.left).difference(targets))
-                    for bit in targets:
-                        if bit >= 0:
-                            written.setdefault(bit, None)
-                    read.update(resolver.reads(node.right))
-                    return ast.VisitAction.Skip
-                if node.kind in (EK.NamedValue, EK.ElementSelect, EK.RangeSelect):
-                    read.update(resolver.reads(node))
-                    return ast.VisitAction.Skip
-            return ast.VisitAction.Advance
-
-        block.body.visit(visit)
-        where = self.locations.location(block.location)
-        if sequential:
-            cell_class, kind, arc_mode = CellClass.SEQUENTIAL, "sequential", ArcMode.NONE
-        else:
-            cell_class, kind, arc_mode = CellClass.BEHAVIOURAL, "behavioural", ArcMode.FULL
-            self.template.warnings.append(
-                f"{where}: warning: level-sensitive process treated as a combinational black box")
-        self._begin_cell(f"{prefix}process@{where.line}:{where.column}", kind, cell_class, arc_mode, block.location)
-        names = self.template.net_names
-        for bit in sorted(read):
-            self._pin(bit, PinDirection.IN, names[bit])
-        for bit in written:
-            self._pin(bit, PinDirection.OUT, names[bit])
-        self._end_cell()
-
-
-def _bit_width(symbol_type: object) -> int:
-    """How many net bits a net or variable has.
-
-    slang gives an unpacked array (``reg mem [0:3]``) a bit width of 0; counting its elements
-    keeps ``mem[2]`` a real bit instead of silently connecting nothing.
-    """
-    if symbol_type.isUnpackedArray:
-        return symbol_type.selectableWidth
-    return symbol_type.bitWidth
-
-
-class _TypeShape(NamedTuple):
-    width: int
-    lower: int
-    upper: int
-    descending: bool
-    declared_width: int  # elements of the outermost dimension
-    is_array: bool
-
-
-def _bit_names(name: str, shape: _TypeShape) -> list[str]:
-    """The name of each bit of a net of this shape, LSB first: ``d``, ``d[0]``, ``m[1][0]``."""
-    width = shape.width
-    if width == 1 and not shape.is_array:
-        return [name]
-    if shape.declared_width == width or not shape.is_array:
-        first, step = (shape.lower, 1) if shape.descending else (shape.upper, -1)
-        return [f"{name}[{first + step * offset}]" for offset in range(width)]
-    # multi-dimensional: name the outer index, then the offset inside it
-    per_element = width // shape.declared_width
-    names = []
-    for offset in range(width):
-        outer, inner = divmod(offset, per_element)
-        index = shape.lower + outer if shape.descending else shape.upper - outer
-        names.append(f"{name}[{index}][{inner}]")
-    return names
-
-
-def _ordered_positions(instance: ast.Symbol) -> list[int]:
-    """The position in the written list of each connection slang kept for an undefined instance.
-
-    slang drops empty ordered connections (``other m (a, , z)``) from ``portConnections``, so
-    counting those would name ``z`` pin ``#1`` instead of ``#2``; the syntax still has them.
-    """
-    node = instance.syntax
-    connections = getattr(node, "connections", None) if node is not None else None
-    if connections is None:
-        return []
-    written = [item for item in connections if isinstance(item, syntax.SyntaxNode)]
-    kept = [position for position, item in enumerate(written) if item.kind != syntax.SyntaxKind.EmptyPortConnection]
-    return kept if len(kept) == len(instance.portConnections) else []
-
-
-def _selected_from(resolver: BitResolver, target: ast.Expression) -> list[int]:
-    """Every bit a write to ``target`` may reach when an index in it is not a constant."""
-    try:
-        return resolver.bits(target) or []
-    except UnsupportedExpression:
-        if target.kind in (EK.ElementSelect, EK.RangeSelect):
-            return _selected_from(resolver, target.value)
-        if target.kind == EK.Concatenation:
-            return [bit for operand in target.operands for bit in _selected_from(resolver, operand)]
-        return []
-
-
-def _is_edge_triggered(statement: ast.Statement) -> bool:
-    """True for ``always @(posedge ...)`` and event lists holding an edge."""
-    if statement.kind != ast.StatementKind.Timed:
-        return False
-    timing = statement.timing
-    events = list(timing.events) if timing.kind == ast.TimingControlKind.EventList else [timing]
-    return any(
-        event.kind == ast.TimingControlKind.SignalEvent and event.edge != ast.EdgeKind.None_
-        for event in events
-    )
