@@ -19,6 +19,7 @@ from scipy.sparse.csgraph import connected_components
 
 from linter.netlist.graph import CONSTANT_NAMES, ArcMode, CellClass, DesignGraph, PinDirection, TopPort
 from linter.netlist.locations import LocationTable
+from linter.netlist.source_facts import SourceFacts
 from linter.netlist.template import Template, TemplateBuilder, verilog_name
 
 _TIE_KIND = {-1: "tie0", -2: "tie1", -3: "tiex", -4: "tiez"}
@@ -71,11 +72,12 @@ class Flattener:
         self.link_a: list[int] = []
         self.link_b: list[int] = []
         self.ties: list[tuple[int, int, str]] = []  # (raw bit, constant, module instance written in)
+        self.facts = SourceFacts.scan(locations.source_manager)
 
     def _template(self, body: ast.Symbol) -> tuple[Template, _Arrays]:
         entry = self.templates.get(body)
         if entry is None:
-            template = TemplateBuilder(body, self.locations, self.leaf_modules).build()
+            template = TemplateBuilder(body, self.locations, self.leaf_modules, self.facts).build()
             entry = self.templates[body] = (template, _Arrays.of(template))
         return entry
 

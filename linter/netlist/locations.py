@@ -29,6 +29,10 @@ class LocationTable:
         self.line = np.zeros(0, np.int32)
         self.column = np.zeros(0, np.int32)
 
+    @property
+    def source_manager(self) -> pyslang.SourceManager:
+        return self._source_manager
+
     def intern(self, loc: pyslang.SourceLocation | None) -> int:
         if loc is None:
             return 0

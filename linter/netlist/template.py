@@ -17,6 +17,7 @@ from linter.netlist.graph import CONST0, CONST1, ArcMode, CellClass, PinDirectio
 from linter.netlist.instances import InstanceCells, is_blackbox_body
 from linter.netlist.locations import LocationTable
 from linter.netlist.processes import ProcessCells
+from linter.netlist.source_facts import SourceFacts
 from linter.netlist.template_model import PORT_DIRECTION, SK, ChildLink, PortInfo, Template, verilog_name
 
 __all__ = ["ChildLink", "PortInfo", "Template", "TemplateBuilder", "is_blackbox_body", "verilog_name"]
@@ -37,8 +38,10 @@ _TERMINAL_NAMES = [f"t{i}" for i in range(16)]
 class TemplateBuilder(InstanceCells, ProcessCells):
     """Walks one body. ``leaf_modules`` names modules to keep as leaf cells even if they have a body."""
 
-    def __init__(self, body: ast.InstanceBodySymbol, locations: LocationTable, leaf_modules: frozenset[str]) -> None:
+    def __init__(self, body: ast.InstanceBodySymbol, locations: LocationTable, leaf_modules: frozenset[str],
+                 facts: SourceFacts = SourceFacts()) -> None:
         self.body = body
+        self.facts = facts
         self.locations = locations
         self.leaf_modules = leaf_modules
         self.template = Template(module=body.definition.name)
@@ -50,7 +53,7 @@ class TemplateBuilder(InstanceCells, ProcessCells):
         self._supplies: dict[int, int | None] = {}
         self.resolver = BitResolver(self._symbol_bits)
         self._body_path_length = len(body.hierarchicalPath) + 1
-        self._primitive_specs: dict[ast.Symbol, tuple[str, int, int, list[int] | None]] = {}
+        self._primitive_specs: dict[tuple[int, int], tuple[str, int, int, list[int]]] = {}
         self._blackbox_cache: dict[ast.InstanceBodySymbol, bool] = {}
 
     # ---- bits of symbols -----------------------------------------------------------------------
@@ -62,7 +65,7 @@ class TemplateBuilder(InstanceCells, ProcessCells):
         info = SymbolBits(base, width, shape.lower, shape.upper, shape.descending)
         t.net_names.extend(bit_names(name, shape))
         t.net_location.extend([self.locations.intern(symbol.location)] * width)
-        if symbol.kind == SK.Net:
+        if self.facts.supply_nets and symbol.kind == SK.Net:
             # supply0 / supply1 nets are driven by the rail itself; without a tie every gate
             # input on one would look floating
             constant = self._supply_constant(symbol.netType)
@@ -140,18 +143,19 @@ class TemplateBuilder(InstanceCells, ProcessCells):
 
     def _scope(self, scope: ast.Symbol, prefix: str) -> None:
         members = list(scope)
-        for member in members:
-            if member.kind in (SK.Net, SK.Variable) and id(member) not in self.symbols:
+        kinds = [member.kind for member in members]  # each property read crosses into C++: read once
+        for member, kind in zip(members, kinds):
+            if (kind == SK.Net or kind == SK.Variable) and id(member) not in self.symbols:
                 self._allocate(member, prefix + verilog_name(member.name))
-        for member in members:
-            kind = member.kind
+        for member, kind in zip(members, kinds):
             try:
                 if kind == SK.PrimitiveInstance:
-                    self._primitive(member, prefix + (verilog_name(member.name) if member.name else self._anonymous_name(member)))
+                    gate_name = member.name
+                    self._primitive(member, prefix + (verilog_name(gate_name) if gate_name else self._anonymous_name(member)))
                 elif kind == SK.ContinuousAssign:
                     assignment = member.assignment
                     self._assign(assignment.left, assignment.right, member, prefix)
-                elif kind == SK.Net and member.initializer is not None:
+                elif kind == SK.Net and self.facts.net_initialisers and member.initializer is not None:
                     info = self.symbols[id(member)]
                     self._assign_bits(list(range(info.base, info.base + info.width)), member.initializer, member, prefix)
                 elif kind == SK.Instance:
@@ -197,8 +201,10 @@ class TemplateBuilder(InstanceCells, ProcessCells):
         where = self.locations.location(gate.location)
         return f"{gate.primitiveType.name}@{where.line}:{where.column}"
 
-    def _primitive_spec(self, primitive: ast.Symbol) -> tuple[str, int, int, list[int] | None]:
-        spec = self._primitive_specs.get(primitive)
+    def _primitive_spec(self, primitive: ast.Symbol, count: int) -> tuple[str, int, int, list[int]]:
+        """Kind, class, arcs and terminal directions of a primitive used with ``count`` terminals."""
+        key = (id(primitive), count)
+        spec = self._primitive_specs.get(key)
         if spec is None:
             PK = ast.PrimitiveSymbol.PrimitiveKind
             try:
@@ -214,20 +220,17 @@ class TemplateBuilder(InstanceCells, ProcessCells):
             elif kind == PK.Fixed:
                 arc = ArcMode.NONE if name in _PULL_GATES else ArcMode.FULL
                 spec = (name, CellClass.GATE, arc, [_PRIMITIVE_DIRECTION[p.direction] for p in primitive.ports])
-            else:
-                spec = (name, CellClass.GATE, ArcMode.FULL, None)
-            self._primitive_specs[primitive] = spec
+            elif kind == PK.NInput:
+                spec = (name, CellClass.GATE, ArcMode.FULL, [PinDirection.OUT] + [PinDirection.IN] * (count - 1))
+            else:  # buf / not: every terminal but the last is an output
+                spec = (name, CellClass.GATE, ArcMode.FULL, [PinDirection.OUT] * (count - 1) + [PinDirection.IN])
+            self._primitive_specs[key] = spec
+            self._alive.append(primitive)
         return spec
 
     def _primitive(self, gate: ast.Symbol, name: str) -> None:
-        kind, cell_class, arc_mode, directions = self._primitive_spec(gate.primitiveType)
         connections = gate.portConnections
-        count = len(connections)
-        if directions is None:
-            if gate.primitiveType.primitiveKind == type(gate.primitiveType.primitiveKind).NInput:
-                directions = [PinDirection.OUT] + [PinDirection.IN] * (count - 1)
-            else:  # buf / not: every terminal but the last is an output
-                directions = [PinDirection.OUT] * (count - 1) + [PinDirection.IN]
+        kind, cell_class, arc_mode, directions = self._primitive_spec(gate.primitiveType, len(connections))
         symbols_get = self.symbols.get
         bit_lists = []
         for position, expression in enumerate(connections):
