@@ -80,6 +80,16 @@ def default_catalogue_path() -> Path:
     return Path(linter.__file__).resolve().parent.parent / "catalogues" / "demo_catalogue.yaml"
 
 
+class _Costed:
+    """Costs are compared in integer thousandths, so sums of packages never drift in floats."""
+
+    cost: float
+
+    @property
+    def cost_milli(self) -> int:
+        return round(self.cost * 1000)
+
+
 @dataclass(frozen=True)
 class Side:
     """One side of a translator: the supply range it is rated for and the family of its pins."""
@@ -94,7 +104,7 @@ class Side:
 
 
 @dataclass(frozen=True)
-class TranslatorItem:
+class TranslatorItem(_Costed):
     """One translator package: ``width`` bits, each from side A to side B (or both ways)."""
 
     name: str
@@ -109,23 +119,15 @@ class TranslatorItem:
     description: str = ""
     location: SourceLocation | None = field(default=None, compare=False)
 
-    @property
-    def cost_milli(self) -> int:
-        return round(self.cost * 1000)
-
 
 @dataclass(frozen=True)
-class ResistorItem:
+class ResistorItem(_Costed):
     """A pull-up resistor value the board may use."""
 
     name: str
     ohms: float
     cost: float
     location: SourceLocation | None = field(default=None, compare=False)
-
-    @property
-    def cost_milli(self) -> int:
-        return round(self.cost * 1000)
 
 
 @dataclass(frozen=True)
@@ -141,7 +143,7 @@ class PullUpSizing:
 
 
 @dataclass(frozen=True)
-class DividerItem:
+class DividerItem(_Costed):
     """A two-resistor divider from a higher rail's output down to a lower rail's input."""
 
     name: str
@@ -156,23 +158,15 @@ class DividerItem:
     def ratio(self) -> float:
         return self.bottom_ohms / (self.top_ohms + self.bottom_ohms)
 
-    @property
-    def cost_milli(self) -> int:
-        return round(self.cost * 1000)
-
 
 @dataclass(frozen=True)
-class Replacement:
+class Replacement(_Costed):
     """``replacement`` is a pin-compatible substitute for a receiver of ``family``, at ``cost`` per cell."""
 
     family: str
     replacement: str
     cost: float
     location: SourceLocation | None = field(default=None, compare=False)
-
-    @property
-    def cost_milli(self) -> int:
-        return round(self.cost * 1000)
 
 
 @dataclass(frozen=True)
