@@ -8,7 +8,7 @@ from __future__ import annotations
 import difflib
 import os
 import re
-from collections.abc import Collection, Mapping
+from collections.abc import Collection, Iterator, Mapping
 from dataclasses import dataclass
 from pathlib import Path
 from types import MappingProxyType
@@ -223,16 +223,24 @@ def parse_default_rule(value: Any, where: SourceLocation, names: Names) -> Assig
     return parse_rule(value, where, "default", names, _MODULE_RULE_KEYS)
 
 
-def parse_port_rules(value: Any, where: SourceLocation, names: Names) -> tuple[PortRule, ...]:
-    table = as_mapping(value, where, "ports")
-    rules = []
+def _pattern_entries(value: Any, where: SourceLocation, section: str, keys: Collection[str],
+                     required: Collection[str] = ()) -> Iterator[tuple[NamePattern, str, LocatedDict, SourceLocation]]:
+    """The entries of a ``pattern: {settings}`` section, each checked for known keys:
+    (pattern, how messages name the entry, its settings, where it was written)."""
+    table = as_mapping(value, where, section)
     for key, body in table.items():
-        pattern = parse_pattern(key, table.key_locations[key], "ports pattern")
-        what = f"ports '{key}'"
+        pattern = parse_pattern(key, table.key_locations[key], f"{section} pattern")
+        what = f"{section} '{key}'"
         spec = as_mapping(body, table.where(key), what)
-        check_keys(spec, _PORT_KEYS, what)
+        check_keys(spec, keys, what, required=tuple(required))
+        yield pattern, what, spec, table.where(key)
+
+
+def parse_port_rules(value: Any, where: SourceLocation, names: Names) -> tuple[PortRule, ...]:
+    rules = []
+    for pattern, what, spec, entry_where in _pattern_entries(value, where, "ports", _PORT_KEYS):
         if not spec:
-            raise InputError(f"{what} sets nothing; give {_either(_PORT_KEYS)}", table.where(key))
+            raise InputError(f"{what} sets nothing; give {_either(_PORT_KEYS)}", entry_where)
         family = optional(spec, "family", names.family, f"{what} family")
         rail = optional(spec, "rail", names.rail, f"{what} rail")
         direction = output = None
@@ -241,22 +249,18 @@ def parse_port_rules(value: Any, where: SourceLocation, names: Names) -> tuple[P
             direction = DIRECTIONS[word]
         if "output" in spec:
             output = OUTPUT_KINDS[as_choice(spec["output"], spec.where("output"), f"{what} output", OUTPUT_KINDS)]
-        rules.append(PortRule(pattern, family, rail, direction, output, table.where(key)))
+        rules.append(PortRule(pattern, family, rail, direction, output, entry_where))
     return tuple(rules)
 
 
 # ---- nets --------------------------------------------------------------------------------------
 def parse_pull_ups(value: Any, where: SourceLocation, names: Names) -> tuple[PullUp, ...]:
-    table = as_mapping(value, where, "pull_ups")
     result = []
-    for key, body in table.items():
-        pattern = parse_pattern(key, table.key_locations[key], "pull_ups pattern")
-        what = f"pull_ups '{key}'"
-        spec = as_mapping(body, table.where(key), what)
-        check_keys(spec, _PULL_UP_KEYS, what, required=_PULL_UP_KEYS)
+    for pattern, what, spec, entry_where in _pattern_entries(value, where, "pull_ups", _PULL_UP_KEYS,
+                                                             required=_PULL_UP_KEYS):
         ohms = as_positive(spec["ohms"], spec.where("ohms"), f"{what} ohms")
         rail = names.rail(spec["rail"], spec.where("rail"), f"{what} rail")
-        result.append(PullUp(pattern, ohms, rail, table.where(key)))
+        result.append(PullUp(pattern, ohms, rail, entry_where))
     return tuple(result)
 
 
@@ -296,18 +300,13 @@ def parse_noise_margin(value: Any, where: SourceLocation) -> NoiseMarginPolicy:
 
 
 def parse_net_timing(value: Any, where: SourceLocation) -> tuple[NetTiming, ...]:
-    table = as_mapping(value, where, "net_timing")
     result = []
-    for key, body in table.items():
-        pattern = parse_pattern(key, table.key_locations[key], "net_timing pattern")
-        what = f"net_timing '{key}'"
-        spec = as_mapping(body, table.where(key), what)
-        check_keys(spec, _TIMING_KEYS, what)
+    for pattern, what, spec, entry_where in _pattern_entries(value, where, "net_timing", _TIMING_KEYS):
         if not spec:
-            raise InputError(f"{what} sets nothing; give max_rate_hz and/or max_delay_s", table.where(key))
+            raise InputError(f"{what} sets nothing; give max_rate_hz and/or max_delay_s", entry_where)
         rate = optional(spec, "max_rate_hz", as_positive, f"{what} max_rate_hz")
         delay = optional(spec, "max_delay_s", as_positive, f"{what} max_delay_s")
-        result.append(NetTiming(pattern, rate, delay, table.where(key)))
+        result.append(NetTiming(pattern, rate, delay, entry_where))
     return tuple(result)
 
 
