@@ -17,7 +17,15 @@ from pyslang import ast
 from scipy.sparse import coo_matrix
 from scipy.sparse.csgraph import connected_components
 
-from linter.netlist.graph import CONSTANT_NAMES, ArcMode, CellClass, DesignGraph, PinDirection, TopPort
+from linter.netlist.graph import (
+    CONSTANT_NAMES,
+    ArcMode,
+    CellClass,
+    DesignGraph,
+    PinDirection,
+    TopPort,
+)
+from linter.netlist.listed_body import SourceTexts
 from linter.netlist.locations import LocationTable
 from linter.netlist.source_facts import SourceFacts
 from linter.netlist.template import Template, TemplateBuilder, verilog_name
@@ -62,7 +70,7 @@ class _Instance:
 
 class Flattener:
     def __init__(self, locations: LocationTable, leaf_modules: frozenset[str],
-                 progress: Callable[[int], None] | None = None) -> None:
+                 progress: Callable[[int], None] | None = None, read_listings: bool = True) -> None:
         self.locations = locations
         self.leaf_modules = leaf_modules
         self.progress = progress
@@ -73,11 +81,13 @@ class Flattener:
         self.link_b: list[int] = []
         self.ties: list[tuple[int, int, str]] = []  # (raw bit, constant, module instance written in)
         self.facts = SourceFacts.scan(locations.source_manager)
+        # plain gate-list bodies are read from their text: same result, a fraction of the time
+        self.texts = SourceTexts(locations.source_manager) if read_listings else None
 
     def _template(self, body: ast.Symbol) -> tuple[Template, _Arrays]:
         entry = self.templates.get(body)
         if entry is None:
-            template = TemplateBuilder(body, self.locations, self.leaf_modules, self.facts).build()
+            template = TemplateBuilder(body, self.locations, self.leaf_modules, self.facts, self.texts).build()
             entry = self.templates[body] = (template, _Arrays.of(template))
         return entry
 

@@ -49,6 +49,20 @@ class LocationTable:
             self._special[len(self._buffer) - 1] = loc
         return len(self._buffer) - 1
 
+    def intern_offsets(self, sample: pyslang.SourceLocation, offsets: list[int]) -> int:
+        """Ids for many byte offsets in the plain file buffer of ``sample``; returns the first id.
+
+        The ids are consecutive, one per offset, in the order given.
+        """
+        buffer = sample.buffer.id
+        if buffer not in self._is_file:
+            self._is_file[buffer] = True
+            self._sample[buffer] = sample
+        first = len(self._buffer)
+        self._buffer.extend([buffer] * len(offsets))
+        self._offset.extend(offsets)
+        return first
+
     def location(self, loc: pyslang.SourceLocation | None) -> SourceLocation:
         """An immediate location, for messages made during extraction."""
         if loc is None or loc.buffer.id == 0:

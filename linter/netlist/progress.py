@@ -7,7 +7,8 @@ from collections.abc import Callable, Iterator
 from contextlib import contextmanager
 
 from rich.console import Console
-from rich.progress import BarColumn, Progress as RichProgress, SpinnerColumn, TextColumn, TimeElapsedColumn
+from rich.progress import BarColumn, SpinnerColumn, TextColumn, TimeElapsedColumn
+from rich.progress import Progress as RichProgress
 
 
 class Progress:

@@ -11,14 +11,22 @@ import re
 
 from pyslang import ast
 
-from linter.netlist.bit_layout import bit_names, bit_width, TypeShape
+from linter.netlist.bit_layout import TypeShape, bit_names, bit_width
 from linter.netlist.expressions import BitResolver, SymbolBits, UnsupportedExpression
 from linter.netlist.graph import CONST0, CONST1, ArcMode, CellClass, PinDirection
 from linter.netlist.instances import InstanceCells, is_blackbox_body
+from linter.netlist.listed_body import ListedGateCells, SourceTexts
 from linter.netlist.locations import LocationTable
 from linter.netlist.processes import ProcessCells
 from linter.netlist.source_facts import SourceFacts
-from linter.netlist.template_model import PORT_DIRECTION, SK, ChildLink, PortInfo, Template, verilog_name
+from linter.netlist.template_model import (
+    PORT_DIRECTION,
+    SK,
+    ChildLink,
+    PortInfo,
+    Template,
+    verilog_name,
+)
 
 __all__ = ["ChildLink", "PortInfo", "Template", "TemplateBuilder", "is_blackbox_body", "verilog_name"]
 
@@ -35,12 +43,17 @@ _TERMINAL_NAMES = [f"t{i}" for i in range(16)]
 
 
 
-class TemplateBuilder(InstanceCells, ProcessCells):
-    """Walks one body. ``leaf_modules`` names modules to keep as leaf cells even if they have a body."""
+class TemplateBuilder(InstanceCells, ProcessCells, ListedGateCells):
+    """Walks one body. ``leaf_modules`` names modules to keep as leaf cells even if they have a body.
+
+    Given ``texts``, a body that is a plain gate list is read from its text instead of walked.
+    """
 
     def __init__(self, body: ast.InstanceBodySymbol, locations: LocationTable, leaf_modules: frozenset[str],
-                 facts: SourceFacts = SourceFacts()) -> None:
+                 facts: SourceFacts = SourceFacts(), texts: SourceTexts | None = None) -> None:
         self.body = body
+        self.texts = texts
+        self.port_bits_by_name: dict[str, SymbolBits] = {}
         self.facts = facts
         self.locations = locations
         self.leaf_modules = leaf_modules
@@ -126,7 +139,8 @@ class TemplateBuilder(InstanceCells, ProcessCells):
     # ---- the walk ------------------------------------------------------------------------------
     def build(self) -> Template:
         self._ports()
-        self._scope(self.body, "")
+        if not self._listed_body():
+            self._scope(self.body, "")
         return self.template
 
     def _ports(self) -> None:
@@ -137,6 +151,7 @@ class TemplateBuilder(InstanceCells, ProcessCells):
                 continue
             internal = port.internalSymbol
             info = self.symbols.get(id(internal)) or self._allocate(internal, verilog_name(internal.name))
+            self.port_bits_by_name[internal.name] = info
             msb, lsb = (info.upper, info.lower) if info.descending else (info.lower, info.upper)
             bits = list(range(info.base, info.base + info.width))
             self.template.ports.append(PortInfo(port.name, PORT_DIRECTION[port.direction], bits, msb, lsb, where))

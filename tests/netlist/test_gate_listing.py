@@ -1,0 +1,88 @@
+"""The text reader for plain gate-list bodies gives exactly the graph the symbol walk gives.
+
+The reference is the symbol walk over slang's elaborated design (itself checked against pyverilog
+in ``test_connectivity_reference.py``); every array and name of the two graphs must be equal.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from linter.netlist.flatten import Flattener
+from linter.netlist.gate_listing import read_gate_listing
+from linter.netlist.graph import DesignGraph
+from linter.netlist.locations import LocationTable
+from linter.netlist.source import elaborate
+
+FIXTURE = Path(__file__).parent / "fixtures" / "gate_listing.v"
+
+
+def _graph(path: Path, read_listings: bool) -> tuple[DesignGraph, bool]:
+    source = elaborate([path])
+    flattener = Flattener(LocationTable(source.source_manager), frozenset(), None, read_listings=read_listings)
+    graph = flattener.run(source.top)
+    used = flattener.texts is not None and any(v is not None for v in flattener.texts.listings.values())
+    return graph, used
+
+
+def _differences(a: DesignGraph, b: DesignGraph) -> list[str]:
+    different = []
+    for name, value in vars(b).items():
+        other = getattr(a, name)
+        if isinstance(value, np.ndarray):
+            if value.shape != other.shape or not (value == other).all():
+                different.append(name)
+        elif value != other:
+            different.append(name)
+    return different
+
+
+def test_fixture_is_read_from_text_and_equals_the_walk() -> None:
+    listed, used = _graph(FIXTURE, True)
+    walked, _ = _graph(FIXTURE, False)
+    assert used
+    assert _differences(listed, walked) == []
+    assert listed.cell_names == [
+        "gate_listing.g1", "gate_listing.g2", "gate_listing.not@10:7", "gate_listing.bufx",
+        "gate_listing.g3", "gate_listing.g4", "gate_listing.g5", "gate_listing.xor@14:30", "gate_listing.g6",
+    ]
+
+
+def test_iscas85_is_read_from_text_and_equals_the_walk(iscas85_netlist: Path) -> None:
+    listed, used = _graph(iscas85_netlist, True)
+    walked, _ = _graph(iscas85_netlist, False)
+    assert used  # every ISCAS-85 file is a plain gate list
+    assert _differences(listed, walked) == []
+
+
+def test_other_dataset_files_equal_the_walk(dataset_netlist: Path) -> None:
+    listed, _ = _graph(dataset_netlist, True)
+    walked, _ = _graph(dataset_netlist, False)
+    assert _differences(listed, walked) == []
+
+
+@pytest.mark.parametrize("items", [
+    b"wire a; assign a = 1'b0;",          # an assign is no gate
+    b"wire a; and #1 g (a, a, a);",       # a delay
+    b"wire [W-1:0] a;",                   # a parameterised range
+    b"`ifdef X wire a; `endif",           # a directive
+    b"wire a; cell u (a);",               # a module instance
+    b"wire a [0:1];",                     # an array
+    b"wire \\a,b ; buf g (\\a,b , x);",   # an escaped name holding a comma
+    b"wire a; and g (a, b)",              # no closing semicolon
+])
+def test_anything_outside_the_form_is_left_to_the_walk(items: bytes) -> None:
+    assert read_gate_listing(items, 0, len(items)) is None
+
+
+def test_listing_keeps_byte_offsets() -> None:
+    items = b"  wire n1, \\n.2 ;\n  nand g (n1, n1, \\n.2 );\n"
+    listing = read_gate_listing(items, 0, len(items))
+    assert listing is not None
+    assert [items[o:o + 3] for o in listing.nets[0].offsets] == [b"n1,", b"\\n."]
+    assert items[listing.gate_offsets[0]:listing.gate_offsets[0] + 1] == b"g"
+    assert listing.terms == [b"n1", b"n1", b"\\n.2"]
+    assert listing.term_counts == [3]
