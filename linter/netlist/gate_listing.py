@@ -27,7 +27,6 @@ import re
 from dataclasses import dataclass, field
 from itertools import accumulate
 
-SIMPLE_GATES = ("and", "nand", "or", "nor", "xor", "xnor", "buf", "not")
 
 _ID = rb"(?:[A-Za-z_][A-Za-z0-9_$]*|\\\S+)"
 _IDENTIFIER = re.compile(_ID)
