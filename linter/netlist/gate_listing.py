@@ -27,9 +27,8 @@ import re
 from dataclasses import dataclass, field
 from itertools import accumulate
 
-
-_ID = rb"(?:[A-Za-z_][A-Za-z0-9_$]*|\\\S+)"
-_IDENTIFIER = re.compile(_ID)
+IDENTIFIER_PATTERN = rb"(?:[A-Za-z_][A-Za-z0-9_$]*|\\\S+)"  # a simple or an escaped name
+_IDENTIFIER = re.compile(IDENTIFIER_PATTERN)
 # A statement in four pieces whose lengths add up to all of it but its ";": the keyword with the
 # space around it, the part before any "(", the "(" if there is one, and the rest. Consecutive
 # matches that add up to the whole body prove no text was skipped between them.
@@ -40,7 +39,7 @@ _GATE_WORDS = {word.encode("ascii"): word for word in ("and", "nand", "or", "nor
 _NET_WORDS = {b"wire", b"tri"}
 _PORT_WORDS = {b"input", b"output", b"inout"}
 _RANGE = re.compile(rb"\[\s*(-?\d+)\s*:\s*(-?\d+)\s*\]\s*")
-_MORE_INSTANCES = re.compile(rb",\s*(" + _ID + rb")?\s*(\()([^()]*)\)\s*")
+_MORE_INSTANCES = re.compile(rb",\s*(" + IDENTIFIER_PATTERN + rb")?\s*(\()([^()]*)\)\s*")
 # Text that makes a body mean more than it says: macros and directives, strings, delays,
 # initialisers and attributes. Plain substring tests: far faster than one regex alternation.
 _OUTSIDE_FORM = (b"`", b'"', b"#", b"=", b"(*")

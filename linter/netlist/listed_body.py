@@ -17,7 +17,12 @@ from pyslang import syntax
 
 from linter.netlist.bit_layout import TypeShape, bit_names
 from linter.netlist.expressions import SymbolBits
-from linter.netlist.gate_listing import GateListing, identifier_name, read_gate_listing
+from linter.netlist.gate_listing import (
+    IDENTIFIER_PATTERN,
+    GateListing,
+    identifier_name,
+    read_gate_listing,
+)
 from linter.netlist.graph import (
     CONST0,
     CONST1,
@@ -29,10 +34,9 @@ from linter.netlist.graph import (
 )
 from linter.netlist.template_model import verilog_name
 
-_TERM = re.compile(rb"\s*(?:([A-Za-z_][A-Za-z0-9_$]*|\\\S+)\s*(?:\[\s*(\d+)\s*\])?|1'[bB]([01xXzZ]))\s*\Z")
+_TERM = re.compile(rb"\s*(?:(" + IDENTIFIER_PATTERN + rb")\s*(?:\[\s*(\d+)\s*\])?|1'[bB]([01xXzZ]))\s*\Z")
 _CONSTANT_DIGIT = {b"0": CONST0, b"1": CONST1, b"x": CONSTX, b"X": CONSTX, b"z": CONSTZ, b"Z": CONSTZ}
 _CONSTANT_TERMS = {b"1'" + base + digit: bit for digit, bit in _CONSTANT_DIGIT.items() for base in (b"b", b"B")}
-_SIMPLE = re.compile(r"[A-Za-z_][A-Za-z0-9_$]*")
 _ONE_BIT = TypeShape(1, 0, 0, True, 1, False)
 _TERMINALS = tuple(f"t{position}" for position in range(16))
 _N_INPUT = {"and", "nand", "or", "nor", "xor", "xnor"}  # the rest (buf, not) have N outputs
@@ -107,7 +111,7 @@ class ListedGateCells:
         bit_of_token: dict[bytes, int] = dict(_CONSTANT_TERMS)
         for name, info in bits_of_name.items():
             if info.width == 1:
-                bit_of_token[name.encode("utf-8") if _SIMPLE.fullmatch(name) else b"\\" + name.encode("utf-8")] = info.base
+                bit_of_token[verilog_name(name).encode("utf-8")] = info.base
         nets = self._listed_nets(listing, bits_of_name, bit_of_token)
         pin_net = [bit_of_token.get(term) for term in listing.terms]
         if None in pin_net:
