@@ -44,11 +44,21 @@ def _build(files: Sequence[str | Path], top: str | None, include_dirs: Sequence[
            progress: Progress | None) -> DesignGraph:
     phase = progress.phase if progress is not None else (lambda name, total=None: nullcontext(None))
     with phase("parsing and elaborating"):
-        source = elaborate(files, top, include_dirs, defines)
-    with phase("flattening") as advance:
-        flattener = Flattener(LocationTable(source.source_manager), frozenset(leaf_modules), advance)
-        graph = flattener.run(source.top)
-    graph.diagnostics = sorted(set(source.warnings) | set(graph.diagnostics))
+        # on a big design slang's diagnostics pass runs in a child process while we extract
+        source = elaborate(files, top, include_dirs, defines, background=None)
+    try:
+        with phase("flattening") as advance:
+            flattener = Flattener(LocationTable(source.source_manager), frozenset(leaf_modules), advance)
+            graph = flattener.run(source.top)
+    except Exception:
+        source.diagnostics.warnings()  # an error slang found explains the failure better than ours
+        raise
+    except BaseException:  # an interrupt: stop the child too
+        source.diagnostics.abandon()
+        raise
+    with phase("checking the source"):
+        warnings = source.diagnostics.warnings()
+    graph.diagnostics = sorted(set(warnings) | set(graph.diagnostics))
     # The compilation holds far more memory than the graph; let it go before analysis starts.
     del flattener, source
     gc.collect()

@@ -25,7 +25,7 @@ from linter.netlist.graph import (
     PinDirection,
     TopPort,
 )
-from linter.netlist.listed_body import SourceTexts
+from linter.netlist.listed_body import GateListings
 from linter.netlist.locations import LocationTable
 from linter.netlist.source_facts import SourceFacts
 from linter.netlist.template import Template, TemplateBuilder, verilog_name
@@ -80,14 +80,14 @@ class Flattener:
         self.link_a: list[int] = []
         self.link_b: list[int] = []
         self.ties: list[tuple[int, int, str]] = []  # (raw bit, constant, module instance written in)
-        self.facts = SourceFacts.scan(locations.source_manager)
+        self.facts = SourceFacts.scan(locations.texts)
         # plain gate-list bodies are read from their text: same result, a fraction of the time
-        self.texts = SourceTexts(locations.source_manager) if read_listings else None
+        self.listings = GateListings(locations.texts) if read_listings else None
 
     def _template(self, body: ast.Symbol) -> tuple[Template, _Arrays]:
         entry = self.templates.get(body)
         if entry is None:
-            template = TemplateBuilder(body, self.locations, self.leaf_modules, self.facts, self.texts).build()
+            template = TemplateBuilder(body, self.locations, self.leaf_modules, self.facts, self.listings).build()
             entry = self.templates[body] = (template, _Arrays.of(template))
         return entry
 

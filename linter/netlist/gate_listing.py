@@ -5,19 +5,23 @@ a dozen reads; a million-gate flat netlist spends most of its time there. A body
 port and wire declarations plus instances of the eight simple gate primitives says everything it
 means in its text, so this module reads that text directly with regular expressions.
 
-It never replaces slang: slang has already parsed and elaborated the same text and reports every
-error in it. This reader only accepts a body whose every statement fits the narrow form below,
+It never replaces slang: slang has parsed the same text and its diagnostics pass reports every
+error in it (perhaps in a child process, while this runs). This reader only accepts a body whose every statement fits the narrow form below,
 and answers ``None`` for anything else (a macro, an escaped name holding punctuation, a delay, a
 parameterised range, an ``assign``, a module instance, ...), so the caller walks slang's symbols
 instead. Accepted statements, between the module header and ``endmodule``:
 
-- ``input|output|inout [wire] [N:M] names;`` (the ports themselves come from slang);
+- ``input|output|inout [wire] [N:M] names;``; with a header ``module name (a, b, ...);`` that
+  lists each of them once, they are the ports (:func:`read_port_header`), and slang never has to
+  elaborate the body; otherwise the ports come from slang;
 - ``wire|tri [N:M] names;`` with numeric ranges and no initialiser;
 - ``and|nand|or|nor|xor|xnor|buf|not [name] (terms), [name] (terms) ...;`` where a term is a
   name, a name with a numeric bit select, or one of ``1'b0 1'b1 1'bx 1'bz``.
 
-The statements are cut apart by one regular expression whose pieces must cover the whole body;
-terms are checked where they are resolved (:mod:`linter.netlist.listed_body`). Offsets are byte
+The statements are cut apart by one regular expression whose matches must cover the whole body;
+when every gate statement holds one instance the columns are taken from the matches directly, a
+slice of the body at a time, with no per-gate Python call. Terms are checked where they are
+resolved (:mod:`linter.netlist.listed_body`). Offsets are byte
 offsets into the source buffer, as slang's locations are.
 """
 
@@ -26,6 +30,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass, field
 from itertools import accumulate
+from operator import itemgetter
 
 IDENTIFIER_PATTERN = rb"(?:[A-Za-z_][A-Za-z0-9_$]*|\\\S+)"  # a simple or an escaped name
 _IDENTIFIER = re.compile(IDENTIFIER_PATTERN)
@@ -35,9 +40,20 @@ _IDENTIFIER = re.compile(IDENTIFIER_PATTERN)
 _PIECES = re.compile(
     rb"(\s*(?:and|nand|or|nor|xor|xnor|not|buf|wire|tri|input|output|inout)(?![\w$])\s*)([^;(]*)(\(?)([^;]*);"
 )
+# The same statements when each gate statement holds one instance, in pieces that locate every
+# name without per-gate work: (statement, gate keyword with the space around it, gate keyword,
+# instance name, terms) for a gate, (statement, declaration keyword, the rest) for a declaration.
+_SIMPLE_STATEMENT = re.compile(
+    rb"((\s*(and|nand|or|nor|xor|xnor|not|buf)(?![\w$])\s*)(" + IDENTIFIER_PATTERN + rb")?\s*\(([^();]*)\)\s*;"
+    rb"|\s*(wire|tri|input|output|inout)(?![\w$])([^;]*);)"
+)
+_SLICE = 1 << 18  # bytes of body read at a time
+_WHITESPACE = b" \t\r\n\f\v"
 _GATE_WORDS = {word.encode("ascii"): word for word in ("and", "nand", "or", "nor", "xor", "xnor", "buf", "not")}
 _NET_WORDS = {b"wire", b"tri"}
 _PORT_WORDS = {b"input", b"output", b"inout"}
+_NET_KEYWORD = re.compile(rb"wire(?![\w$])\s*")
+_HEADER = re.compile(rb"\s*module\s+" + IDENTIFIER_PATTERN + rb"\s*\(([^()#;]*)\)\s*;\s*\Z")
 _RANGE = re.compile(rb"\[\s*(-?\d+)\s*:\s*(-?\d+)\s*\]\s*")
 _MORE_INSTANCES = re.compile(rb",\s*(" + IDENTIFIER_PATTERN + rb")?\s*(\()([^()]*)\)\s*")
 # Text that makes a body mean more than it says: macros and directives, strings, delays,
@@ -58,6 +74,14 @@ class NetDeclaration:
 
 
 @dataclass
+class PortDeclaration:
+    """One ``input|output|inout [wire] [N:M] names;`` statement."""
+
+    direction: str  # "input", "output" or "inout"
+    names: NetDeclaration
+
+
+@dataclass
 class GateListing:
     """The wire declarations and gates of one body, in source order."""
 
@@ -67,6 +91,25 @@ class GateListing:
     gate_offsets: list[int] = field(default_factory=list)  # of the name, or of "(" if anonymous
     terms: list[bytes] = field(default_factory=list)  # every gate's terms in turn, stripped
     term_counts: list[int] = field(default_factory=list)  # how many terms each gate has
+    escaped_names: bool = False  # whether any name is written escaped (with a backslash)
+    # the port declarations; None if any is more than directions, names and a numeric range
+    ports: list[PortDeclaration] | None = field(default_factory=list)
+
+    def add_port(self, word: bytes, rest: bytes, offset: int) -> None:
+        """A port statement whose text after the keyword, ``rest``, starts at ``offset``."""
+        if self.ports is None:
+            return
+        front = rest.lstrip()
+        offset += len(rest) - len(front)
+        net_keyword = _NET_KEYWORD.match(front)
+        if net_keyword is not None:
+            offset += net_keyword.end()
+            front = front[net_keyword.end() :]
+        names = _net_declaration(front, offset)
+        if names is None:
+            self.ports = None
+        else:
+            self.ports.append(PortDeclaration(word.decode("ascii"), names))
 
 
 def identifier_name(token: bytes) -> str:
@@ -88,6 +131,85 @@ def read_gate_listing(text: bytes, start: int, end: int) -> GateListing | None:
         return None
     if b"\\" in items and _ESCAPED_WITH_PUNCTUATION.search(items):
         return None
+    listing = _read_simple(items, start)
+    if listing is None:
+        listing = _read_general(items, start)
+    if listing is not None:
+        listing.escaped_names = b"\\" in items
+    return listing
+
+
+def read_port_header(text: bytes, start: int, end: int) -> NetDeclaration | None:
+    """The port names of a header ``module name (a, b, \\c );`` in ``text[start:end]``, in order.
+
+    None for any other header: parameters, ANSI declarations, expressions, comments, macros.
+    """
+    header = text[start:end]
+    match = _HEADER.match(header)
+    if match is None or b"/" in header or b"`" in header:
+        return None
+    return _net_declaration(match.group(1), start + match.start(1))
+
+
+def _read_simple(items: bytes, start: int) -> GateListing | None:
+    """The listing of a body whose gate statements hold one instance each, read column by column.
+
+    The body is read in slices that end at a ";" (which only ends statements here), so the
+    per-statement tuples of one slice are gone before the next is read.
+    """
+    listing = GateListing()
+    position = 0
+    while position < len(items):
+        cut = items.find(b";", position + _SLICE)
+        cut = len(items) if cut < 0 else cut + 1
+        if not _read_simple_slice(items[position:cut], start + position, listing):
+            return None
+        position = cut
+    return listing
+
+
+def _read_simple_slice(items: bytes, start: int, listing: GateListing) -> bool:
+    statements = _SIMPLE_STATEMENT.findall(items)
+    lengths = list(map(len, map(itemgetter(0), statements)))
+    if sum(lengths) + len(items) - len(items.rstrip()) != len(items):
+        return False  # some statement is outside this form (or the text is not all statements)
+    begins = accumulate(lengths, initial=start)  # offset (into the buffer) of each statement
+    gates = []
+    for begin, statement in zip(begins, statements):
+        if statement[2]:
+            gates.append((begin, statement))
+        elif b"(" in statement[6]:
+            return False  # a declaration holds no "(" in this form
+        elif statement[5] in _NET_WORDS:
+            front = statement[6].lstrip()
+            declaration = _net_declaration(front, begin + len(statement[0]) - 1 - len(front))
+            if declaration is None:
+                return False
+            listing.nets.append(declaration)
+        else:
+            listing.add_port(statement[5], statement[6], begin + len(statement[0]) - 1 - len(statement[6]))
+    listing.gate_kinds.extend([_GATE_WORDS[statement[2]] for _, statement in gates])
+    listing.gate_names.extend([statement[3] or None for _, statement in gates])
+    # the name, or the "(" of an anonymous gate, follows the keyword and its space
+    listing.gate_offsets.extend([begin + len(statement[1]) for begin, statement in gates])
+    _add_terms(listing, [statement[4] for _, statement in gates], b"\\" not in items)
+    return True
+
+
+def _add_terms(listing: GateListing, term_lists: list[bytes], no_escaped_names: bool) -> None:
+    """The terms of more gates, stripped, and how many each gate has."""
+    if not term_lists:
+        return
+    joined = b",".join(term_lists)
+    if no_escaped_names:  # no space can end a name, so all of it can go at once
+        listing.terms.extend(joined.translate(None, _WHITESPACE).split(b","))
+    else:
+        listing.terms.extend([term.strip() for term in joined.split(b",")])
+    listing.term_counts.extend([terms.count(b",") + 1 for terms in term_lists])
+
+
+def _read_general(items: bytes, start: int) -> GateListing | None:
+    """The listing of any body of the form, one statement at a time."""
     listing = GateListing()
     term_lists: list[bytes] = []
     position = 0
@@ -104,12 +226,13 @@ def read_gate_listing(text: bytes, start: int, end: int) -> GateListing | None:
             if declaration is None:
                 return None
             listing.nets.append(declaration)
-        elif word not in _PORT_WORDS:
+        elif word in _PORT_WORDS:
+            listing.add_port(word, front, start + begin)
+        else:
             return None  # a gate without terminals
     if items[position:].strip():
         return None  # text that is no statement of the form
-    listing.terms = [term.strip() for term in b",".join(term_lists).split(b",")] if term_lists else []
-    listing.term_counts = [terms.count(b",") + 1 for terms in term_lists]
+    _add_terms(listing, term_lists, b"\\" not in items)
     return listing
 
 

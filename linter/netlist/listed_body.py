@@ -8,20 +8,22 @@ listing cannot be resolved the same way, nothing is kept and the caller walks th
 
 from __future__ import annotations
 
-import bisect
 import re
-from itertools import accumulate
+from itertools import accumulate, chain
 
 import pyslang
 from pyslang import syntax
 
+from linter.errors import SourceLocation
 from linter.netlist.bit_layout import TypeShape, bit_names
 from linter.netlist.expressions import SymbolBits
 from linter.netlist.gate_listing import (
     IDENTIFIER_PATTERN,
     GateListing,
+    NetDeclaration,
     identifier_name,
     read_gate_listing,
+    read_port_header,
 )
 from linter.netlist.graph import (
     CONST0,
@@ -32,44 +34,24 @@ from linter.netlist.graph import (
     CellClass,
     PinDirection,
 )
-from linter.netlist.template_model import verilog_name
+from linter.netlist.source_texts import SourceTexts
+from linter.netlist.template_model import PortInfo, verilog_name
 
 _TERM = re.compile(rb"\s*(?:(" + IDENTIFIER_PATTERN + rb")\s*(?:\[\s*(\d+)\s*\])?|1'[bB]([01xXzZ]))\s*\Z")
 _CONSTANT_DIGIT = {b"0": CONST0, b"1": CONST1, b"x": CONSTX, b"X": CONSTX, b"z": CONSTZ, b"Z": CONSTZ}
 _CONSTANT_TERMS = {b"1'" + base + digit: bit for digit, bit in _CONSTANT_DIGIT.items() for base in (b"b", b"B")}
 _ONE_BIT = TypeShape(1, 0, 0, True, 1, False)
+_PORT_DIRECTION = {"input": PinDirection.IN, "output": PinDirection.OUT, "inout": PinDirection.INOUT}
 _TERMINALS = tuple(f"t{position}" for position in range(16))
 _N_INPUT = {"and", "nand", "or", "nor", "xor", "xnor"}  # the rest (buf, not) have N outputs
 
 
-class SourceTexts:
-    """The bytes of each source buffer, read from slang once however many bodies it holds."""
-
-    def __init__(self, source_manager: pyslang.SourceManager) -> None:
-        self.source_manager = source_manager
-        self._texts: dict[int, bytes] = {}
-        self._line_starts: dict[int, list[int]] = {}
-        self.listings: dict[tuple[int, int], GateListing | None] = {}
-
-    def text(self, loc: pyslang.SourceLocation) -> bytes:
-        buffer = loc.buffer.id
-        text = self._texts.get(buffer)
-        if text is None:
-            text = self._texts[buffer] = self.source_manager.getSourceText(loc.buffer).encode("utf-8")
-        return text
-
-    def line_column(self, loc: pyslang.SourceLocation, offset: int) -> tuple[int, int]:
-        starts = self._line_starts.get(loc.buffer.id)
-        if starts is None:
-            text = self.text(loc)
-            starts = [0]
-            position = text.find(b"\n")
-            while position >= 0:
-                starts.append(position + 1)
-                position = text.find(b"\n", position + 1)
-            self._line_starts[loc.buffer.id] = starts
-        line = bisect.bisect_right(starts, offset)
-        return line, offset - starts[line - 1] + 1
+def _shape(declaration: NetDeclaration) -> TypeShape:
+    if declaration.msb is None:
+        return _ONE_BIT
+    msb, lsb = declaration.msb, declaration.lsb
+    lower, upper = min(msb, lsb), max(msb, lsb)
+    return TypeShape(upper - lower + 1, lower, upper, msb >= lsb, upper - lower + 1, True)
 
 
 def _directions(kind: str, count: int) -> list[int]:
@@ -78,74 +60,129 @@ def _directions(kind: str, count: int) -> list[int]:
     return [PinDirection.OUT] * (count - 1) + [PinDirection.IN]
 
 
-class ListedGateCells:
-    """Reading a plain gate-list body from its text (mixed into the template builder)."""
+class GateListings:
+    """The gate listing of each module declaration, read once however many bodies share its text."""
 
-    def _gate_listing(self) -> tuple[GateListing, pyslang.SourceLocation] | None:
-        texts: SourceTexts | None = self.texts
-        if texts is None:
-            return None
-        declaration = self.body.definition.syntax
+    def __init__(self, texts: SourceTexts) -> None:
+        self.texts = texts
+        self.read: dict[tuple[int, int], GateListing | None] = {}  # (buffer, offset) -> listing
+
+    def of(self, declaration: syntax.SyntaxNode | None) -> tuple[GateListing, pyslang.SourceLocation] | None:
+        """The listing of a module declaration and where its items start, or None if it has none."""
         if declaration is None or declaration.kind != syntax.SyntaxKind.ModuleDeclaration:
             return None
         start, end = declaration.header.sourceRange.end, declaration.endmodule.location
-        sm = texts.source_manager
+        sm = self.texts.source_manager
         if start.buffer.id != end.buffer.id or start.buffer.id == 0:
             return None
         if not sm.isFileLoc(start) or sm.isMacroLoc(start) or sm.isMacroLoc(end):
             return None
         key = (start.buffer.id, start.offset)
-        if key not in texts.listings:
-            texts.listings[key] = read_gate_listing(texts.text(start), start.offset, end.offset)
-        listing = texts.listings[key]
+        if key not in self.read:
+            self.read[key] = read_gate_listing(self.texts.text(start.buffer), start.offset, end.offset)
+        listing = self.read[key]
         return None if listing is None else (listing, start)
 
-    def _listed_body(self) -> bool:
-        """Fill the template from the body's gate listing; False (and nothing kept) if it has none."""
-        found = self._gate_listing()
-        if found is None:
+
+class ListedGateCells:
+    """Reading a plain gate-list body from its text (mixed into the template builder)."""
+
+    def _gate_listing(self) -> tuple[GateListing, pyslang.SourceLocation] | None:
+        listings: GateListings | None = self.listings
+        return None if listings is None else listings.of(self.body.definition.syntax)
+
+    def _listed_ports(self, listing: GateListing, sample: pyslang.SourceLocation) -> bool:
+        """The ports from the header and the port statements, as slang's port list would give them.
+
+        Reading them from the text spares elaborating the body, which costs seconds on a million
+        gates. False (and nothing kept) for any header or declaration outside the plain form.
+        """
+        header = self.body.definition.syntax.header.sourceRange
+        if listing.ports is None or header.start.buffer.id != sample.buffer.id:
             return False
-        listing, sample = found
+        texts = self.listings.texts
+        order = read_port_header(texts.text(sample.buffer), header.start.offset, header.end.offset)
+        if order is None:
+            return False
+        declared: dict[str, tuple[str, NetDeclaration, int]] = {}
+        for port in listing.ports:
+            for token, offset in zip(port.names.tokens, port.names.offsets):
+                declared.setdefault(identifier_name(token), (port.direction, port.names, offset))
+        names = [identifier_name(token) for token in order.tokens]
+        declarations = sum(len(port.names.tokens) for port in listing.ports)
+        if len(set(names)) != len(names) or set(names) != set(declared) or declarations != len(names):
+            return False  # a port declared twice, or not at all, or a declaration of no port
+        t = self.template
+        file_name = texts.source_manager.getFileName(sample)
+        for name in names:  # slang's port list order; each port located at its declaration
+            direction, declaration, offset = declared[name]
+            shape = _shape(declaration)
+            info = SymbolBits(len(t.net_names), shape.width, shape.lower, shape.upper, shape.descending)
+            t.net_names.extend(bit_names(verilog_name(name), shape))
+            t.net_location.extend([self.locations.intern_offsets(sample, [offset])] * shape.width)
+            self.port_bits_by_name[name] = info
+            msb, lsb = (info.upper, info.lower) if info.descending else (info.lower, info.upper)
+            where = SourceLocation(file_name, *texts.line_column(sample, offset))
+            bits = list(range(info.base, info.base + info.width))
+            t.ports.append(PortInfo(name, _PORT_DIRECTION[direction], bits, msb, lsb, where))
+        return True
+
+    def _listed_body(self, listing: GateListing, sample: pyslang.SourceLocation, ports_from_text: bool) -> bool:
+        """Fill the template's nets and cells from the body's gate listing; False if it cannot be."""
+        # the vectors and ports by name, for terms that select a bit
         bits_of_name: dict[str, SymbolBits] = dict(self.port_bits_by_name)
         # a term as written -> its bit, for the one-bit names and constants most terms are
         bit_of_token: dict[bytes, int] = dict(_CONSTANT_TERMS)
         for name, info in bits_of_name.items():
             if info.width == 1:
                 bit_of_token[verilog_name(name).encode("utf-8")] = info.base
-        nets = self._listed_nets(listing, bits_of_name, bit_of_token)
-        pin_net = [bit_of_token.get(term) for term in listing.terms]
+        nets = self._listed_nets(listing, bits_of_name, bit_of_token, ports_from_text)
+        if nets is None:
+            return False
+        pin_net = list(map(bit_of_token.get, listing.terms))
         if None in pin_net:
             for position, term in enumerate(listing.terms):
                 if pin_net[position] is None:
-                    pin_net[position] = _term_bit(term, bits_of_name)
+                    pin_net[position] = _term_bit(term, bits_of_name, bit_of_token)
                     if pin_net[position] is None:
                         return False
         self._keep_listed(listing, sample, nets, pin_net)
         return True
 
     def _listed_nets(self, listing: GateListing, bits_of_name: dict[str, SymbolBits],
-                     bit_of_token: dict[bytes, int]) -> tuple[list[str], list[int]]:
-        """Bits for the declared wires, after those of the ports: their names and source offsets."""
+                     bit_of_token: dict[bytes, int], ports_from_text: bool) -> tuple[list[str], list[int]] | None:
+        """Bits for the declared wires, after those of the ports: their names and source offsets.
+
+        A one-bit wire goes into ``bit_of_token`` only, a vector into ``bits_of_name`` as well.
+        A wire that redeclares a port keeps the port's bits; with the ports read from the text
+        that is left to slang (None), which knows which of the two declarations the net is.
+        """
         net_names: list[str] = []
         net_offsets: list[int] = []
         next_bit = len(self.template.net_names)
+        port_names = set(self.port_bits_by_name)
         for declaration in listing.nets:
-            if declaration.msb is None:
-                shape = _ONE_BIT
-            else:
-                msb, lsb = declaration.msb, declaration.lsb
-                lower, upper = min(msb, lsb), max(msb, lsb)
-                shape = TypeShape(upper - lower + 1, lower, upper, msb >= lsb, upper - lower + 1, True)
+            if declaration.msb is None and not listing.escaped_names:
+                names = b" ".join(declaration.tokens).decode("ascii").split(" ")
+                if port_names.isdisjoint(names):  # the commonest statement, taken whole
+                    bit_of_token.update(zip(declaration.tokens, range(next_bit, next_bit + len(names))))
+                    net_names.extend(names)
+                    net_offsets.extend(declaration.offsets)
+                    next_bit += len(names)
+                    continue
+            shape = _shape(declaration)
             for token, offset in zip(declaration.tokens, declaration.offsets):
                 name = identifier_name(token)
-                if name in bits_of_name:  # a port's own declaration: the port already has its bits
+                if name in port_names:  # a port's own declaration: the port already has its bits
+                    if ports_from_text:
+                        return None
                     continue
-                bits_of_name[name] = SymbolBits(next_bit, shape.width, shape.lower, shape.upper, shape.descending)
                 if shape is _ONE_BIT:
                     bit_of_token[token] = next_bit
                     net_names.append(verilog_name(name) if token[:1] == b"\\" else name)
                     net_offsets.append(offset)
                 else:
+                    bits_of_name[name] = SymbolBits(next_bit, shape.width, shape.lower, shape.upper, shape.descending)
                     net_names.extend(bit_names(verilog_name(name), shape))
                     net_offsets.extend([offset] * shape.width)
                 next_bit += shape.width
@@ -161,11 +198,14 @@ class ListedGateCells:
 
         count = len(listing.gate_kinds)
         first = self.locations.intern_offsets(sample, listing.gate_offsets)
-        t.cell_names.extend(
-            verilog_name(identifier_name(name)) if name is not None
-            else "{}@{}:{}".format(kind, *self.texts.line_column(sample, offset))
-            for kind, name, offset in zip(listing.gate_kinds, listing.gate_names, listing.gate_offsets)
-        )
+        if listing.escaped_names or None in listing.gate_names:
+            t.cell_names.extend(
+                verilog_name(identifier_name(name)) if name is not None
+                else "{}@{}:{}".format(kind, *self.listings.texts.line_column(sample, offset))
+                for kind, name, offset in zip(listing.gate_kinds, listing.gate_names, listing.gate_offsets)
+            )
+        elif count:  # simple names only: spelt as written
+            t.cell_names.extend(b" ".join(listing.gate_names).decode("ascii").split(" "))
         t.cell_kinds.extend(listing.gate_kinds)
         t.cell_class.extend([CellClass.GATE] * count)
         t.cell_arc_mode.extend([ArcMode.FULL] * count)
@@ -174,25 +214,29 @@ class ListedGateCells:
         next(ends)  # the first value is where these pins start, which the list already ends with
         t.cell_pin_start.extend(ends)
         t.pin_net.extend(pin_net)
-        directions: dict[tuple[str, int], list[int]] = {}
-        for kind, terms in zip(listing.gate_kinds, listing.term_counts):
-            spec = directions.get((kind, terms))
-            if spec is None:
-                spec = directions[(kind, terms)] = _directions(kind, terms)
-            t.pin_direction.extend(spec)
-            t.pin_names.extend(_TERMINALS[:terms] if terms <= 16 else [f"t{i}" for i in range(terms)])
+        shapes = list(zip(listing.gate_kinds, listing.term_counts))
+        directions = {shape: _directions(*shape) for shape in set(shapes)}
+        names = {(kind, terms): _TERMINALS[:terms] if terms <= 16 else tuple(f"t{i}" for i in range(terms))
+                 for kind, terms in directions}
+        t.pin_direction.extend(chain.from_iterable(map(directions.__getitem__, shapes)))
+        t.pin_names.extend(chain.from_iterable(map(names.__getitem__, shapes)))
 
 
-def _term_bit(raw: bytes, bits_of_name: dict[str, SymbolBits]) -> int | None:
+def _term_bit(raw: bytes, bits_of_name: dict[str, SymbolBits], bit_of_token: dict[bytes, int]) -> int | None:
     """The one bit a gate terminal names, or None if it is anything the symbol walk would read otherwise."""
     match = _TERM.match(raw)
     if match is None:
         return None
     if match.group(3) is not None:
         return _CONSTANT_DIGIT[match.group(3)]
-    info = bits_of_name.get(identifier_name(match.group(1)))
+    name = identifier_name(match.group(1))
+    info = bits_of_name.get(name)
     if info is None:
-        return None  # an implicit net, or a name slang resolves some other way
+        if match.group(2) is not None:
+            return None
+        # a one-bit wire spelt another way than declared: escaped for a simple name, or the reverse
+        spelt = name.encode("utf-8")
+        return bit_of_token.get(spelt, bit_of_token.get(b"\\" + spelt))
     if match.group(2) is None:
         return info.base if info.width == 1 else None
     index = int(match.group(2))

@@ -12,6 +12,7 @@ import numpy as np
 import pyslang
 
 from linter.errors import SourceLocation
+from linter.netlist.source_texts import SourceTexts
 
 
 class LocationTable:
@@ -19,6 +20,7 @@ class LocationTable:
 
     def __init__(self, source_manager: pyslang.SourceManager) -> None:
         self._source_manager = source_manager
+        self.texts = SourceTexts(source_manager)
         self._buffer: list[int] = [0]
         self._offset: list[int] = [0]
         self._is_file: dict[int, bool] = {0: False}
@@ -89,8 +91,7 @@ class LocationTable:
             sample = self._sample[buffer]
             name = sm.getFileName(sample)
             index = file_index.setdefault(name, len(file_index))
-            text = sm.getSourceText(sample.buffer).encode("utf-8")
-            line_starts = np.concatenate(([0], np.flatnonzero(np.frombuffer(text, np.uint8) == 10) + 1))
+            line_starts = self.texts.line_starts(sample.buffer)
             where = np.flatnonzero(buffers == buffer)
             lines = np.searchsorted(line_starts, offsets[where], side="right")
             self.file[where] = index

@@ -11,7 +11,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
-import pyslang
+from linter.netlist.source_texts import SourceTexts
 
 _SUPPLY = re.compile(rb"\bsupply[01]\b")
 # a net declaration with "=" before its ";": the only way a net gets an initialiser
@@ -25,9 +25,10 @@ class SourceFacts:
     net_initialisers: bool = True  # some buffer may declare a net with an initialiser
 
     @classmethod
-    def scan(cls, source_manager: pyslang.SourceManager) -> SourceFacts:
-        texts = [source_manager.getSourceText(b).encode("utf-8", "replace") for b in source_manager.getAllBuffers()]
+    def scan(cls, sources: SourceTexts) -> SourceFacts:
+        texts = sources.all_texts()
+        # a substring test first: most netlists hold no "supply" and no "=" at all
         return cls(
-            supply_nets=any(_SUPPLY.search(text) for text in texts),
-            net_initialisers=any(_NET_INITIALISER.search(text) for text in texts),
+            supply_nets=any(b"supply" in text and _SUPPLY.search(text) for text in texts),
+            net_initialisers=any(b"=" in text and _NET_INITIALISER.search(text) for text in texts),
         )

@@ -15,7 +15,7 @@ from linter.netlist.bit_layout import TypeShape, bit_names, bit_width
 from linter.netlist.expressions import BitResolver, SymbolBits, UnsupportedExpression
 from linter.netlist.graph import CONST0, CONST1, ArcMode, CellClass, PinDirection
 from linter.netlist.instances import InstanceCells, is_blackbox_body
-from linter.netlist.listed_body import ListedGateCells, SourceTexts
+from linter.netlist.listed_body import GateListings, ListedGateCells
 from linter.netlist.locations import LocationTable
 from linter.netlist.processes import ProcessCells
 from linter.netlist.source_facts import SourceFacts
@@ -39,6 +39,7 @@ _PRIMITIVE_DIRECTION = {
 _PULL_GATES = {"pullup", "pulldown"}
 _SUPPLY_CONSTANT = {ast.NetType.NetKind.Supply0: CONST0, ast.NetType.NetKind.Supply1: CONST1}
 _PATH_PART = re.compile(r"\\(\S+) ?|([^.\\]+)")
+_ASSUME_ANYTHING = SourceFacts()  # no scan made: every question is asked
 _TERMINAL_NAMES = [f"t{i}" for i in range(16)]
 
 
@@ -46,13 +47,13 @@ _TERMINAL_NAMES = [f"t{i}" for i in range(16)]
 class TemplateBuilder(InstanceCells, ProcessCells, ListedGateCells):
     """Walks one body. ``leaf_modules`` names modules to keep as leaf cells even if they have a body.
 
-    Given ``texts``, a body that is a plain gate list is read from its text instead of walked.
+    Given ``listings``, a body that is a plain gate list is read from its text instead of walked.
     """
 
     def __init__(self, body: ast.InstanceBodySymbol, locations: LocationTable, leaf_modules: frozenset[str],
-                 facts: SourceFacts = SourceFacts(), texts: SourceTexts | None = None) -> None:
+                 facts: SourceFacts = _ASSUME_ANYTHING, listings: GateListings | None = None) -> None:
         self.body = body
-        self.texts = texts
+        self.listings = listings
         self.port_bits_by_name: dict[str, SymbolBits] = {}
         self.facts = facts
         self.locations = locations
@@ -138,10 +139,23 @@ class TemplateBuilder(InstanceCells, ProcessCells, ListedGateCells):
 
     # ---- the walk ------------------------------------------------------------------------------
     def build(self) -> Template:
+        found = self._gate_listing()
+        if found is not None:
+            ports_from_text = self._listed_ports(*found)
+            if not ports_from_text:
+                self._ports()
+            if self._listed_body(*found, ports_from_text):
+                return self.template
+            self._start_again()
         self._ports()
-        if not self._listed_body():
-            self._scope(self.body, "")
+        self._scope(self.body, "")
         return self.template
+
+    def _start_again(self) -> None:
+        """Forget a half-read gate listing so the symbol walk starts from nothing."""
+        self.template = Template(module=self.body.definition.name)
+        self.port_bits_by_name.clear()
+        self.symbols.clear()
 
     def _ports(self) -> None:
         for port in self.body.portList:

@@ -16,6 +16,7 @@ from linter.netlist.gate_listing import read_gate_listing
 from linter.netlist.graph import DesignGraph
 from linter.netlist.locations import LocationTable
 from linter.netlist.source import elaborate
+from linter.netlist.template import TemplateBuilder
 
 FIXTURE = Path(__file__).parent / "fixtures" / "gate_listing.v"
 
@@ -24,7 +25,7 @@ def _graph(path: Path, read_listings: bool) -> tuple[DesignGraph, bool]:
     source = elaborate([path])
     flattener = Flattener(LocationTable(source.source_manager), frozenset(), None, read_listings=read_listings)
     graph = flattener.run(source.top)
-    used = flattener.texts is not None and any(v is not None for v in flattener.texts.listings.values())
+    used = flattener.listings is not None and any(v is not None for v in flattener.listings.read.values())
     return graph, used
 
 
@@ -86,3 +87,49 @@ def test_listing_keeps_byte_offsets() -> None:
     assert items[listing.gate_offsets[0]:listing.gate_offsets[0] + 1] == b"g"
     assert listing.terms == [b"n1", b"n1", b"\\n.2"]
     assert listing.term_counts == [3]
+
+
+def test_a_plain_listing_never_asks_slang_for_its_port_list(monkeypatch: pytest.MonkeyPatch) -> None:
+    # Reading the ports from the header and declarations is what spares elaborating the body.
+    def refuse(self: TemplateBuilder) -> None:
+        raise AssertionError("the slang port list was read")
+
+    walked, _ = _graph(FIXTURE, False)
+    monkeypatch.setattr(TemplateBuilder, "_ports", refuse)
+    listed, used = _graph(FIXTURE, True)
+    assert used
+    assert _differences(listed, walked) == []
+
+
+# Headers and port declarations the text reader leaves to slang's port list; the result must
+# still equal the walk. Each is invented for this test.
+@pytest.mark.parametrize("module", [
+    "module m (input a, output y);\n  not g (y, a);\nendmodule\n",                  # ANSI header
+    "module m (a, y);\n  input a;\n  output y;\n  wire y;\n  not g (y, a);\nendmodule\n",  # port redeclared
+    "module m (a, y);\n  input a;\n  output reg y;\n  not g (y, a);\nendmodule\n",  # a reg port
+    "module m #(parameter W = 1) (a, y);\n  input a;\n  output y;\n  buf g (y, a);\nendmodule\n",
+    "module m (a, y /* out */);\n  input a;\n  output y;\n  buf g (y, a);\nendmodule\n",
+    "module m (.p(a), y);\n  input a;\n  output y;\n  buf g (y, a);\nendmodule\n",
+])
+def test_other_headers_take_slangs_ports_and_equal_the_walk(tmp_path: Path, module: str) -> None:
+    path = tmp_path / "m.v"
+    path.write_text(module)
+    listed, _ = _graph(path, True)
+    walked, _ = _graph(path, False)
+    assert _differences(listed, walked) == []
+
+
+def test_a_body_longer_than_one_slice_equals_the_walk(tmp_path: Path) -> None:
+    # about 16 bytes per gate: 40,000 gates is over twice the reader's 256 KiB slice
+    gates = 40_000
+    lines = [f"module chain (a, y);\n  input a;\n  output y;\n  wire [{gates}:0] w;\n  buf g0 (w[0], a);"]
+    lines += [f"  not g{i} (w[{i}], w[{i - 1}]);" for i in range(1, gates + 1)]
+    lines += [f"  buf last (y, w[{gates}]);", "endmodule", ""]
+    path = tmp_path / "chain.v"
+    path.write_text("\n".join(lines))
+    assert path.stat().st_size > 2 * 2**18
+    listed, used = _graph(path, True)
+    walked, _ = _graph(path, False)
+    assert used
+    assert _differences(listed, walked) == []
+    assert listed.cell_count == gates + 2

@@ -1,0 +1,148 @@
+"""slang's diagnostics pass, turned into our one-line messages, run in a forked child when worth it.
+
+``Compilation.getAllDiagnostics`` elaborates every symbol of the design to find its errors; on a
+million-gate netlist that is several seconds, held under the interpreter lock. Extraction does not
+need it (it elaborates what it walks, and reads plain gate lists from their text), so on a big
+design the pass runs in a forked copy of the process while the parent extracts. The child sends
+back only plain data, and the parent raises the first error before anything is written, exactly
+as if the pass had run first. Where fork is missing, or the child fails, the pass runs in-process.
+"""
+
+from __future__ import annotations
+
+import os
+import pickle
+import signal
+from dataclasses import dataclass, field
+
+import pyslang
+from pyslang import ast
+
+from linter.errors import InputError, SourceLocation
+
+# Warnings that say nothing about connectivity or electrical behaviour of a netlist.
+_QUIET_WARNINGS = {"newline-eof", "unused-def", "udp-coverage"}
+
+# Below this much Verilog the pass takes milliseconds, less than a fork costs.
+BACKGROUND_FROM_BYTES = 4_000_000
+
+
+def location_of(source_manager: pyslang.SourceManager, loc: pyslang.SourceLocation) -> SourceLocation:
+    """Our location for a slang location; an empty location yields ``<unknown>``."""
+    if loc is None or loc.buffer.id == 0:
+        return SourceLocation("<unknown>")
+    name = source_manager.getFileName(loc)
+    if not name:  # slang's "no location" (an unknown --top) has a buffer id but names no file
+        return SourceLocation("<unknown>")
+    return SourceLocation(name, source_manager.getLineNumber(loc), source_manager.getColumnNumber(loc))
+
+
+@dataclass(frozen=True)
+class DiagnosticOutcome:
+    """What the pass found: the first error in source order (if any) and the warnings worth showing."""
+
+    error: tuple[str, SourceLocation | None] | None = None
+    warnings: list[str] = field(default_factory=list)
+
+    def raise_error(self) -> None:
+        if self.error is not None:
+            raise InputError(*self.error)
+
+
+def collect(compilation: ast.Compilation, source_manager: pyslang.SourceManager) -> DiagnosticOutcome:
+    """Run slang's full pass and sort what it says into one error and the remaining warnings."""
+    engine = pyslang.DiagnosticEngine(source_manager)
+    errors: list[tuple[tuple[str, int, int], str, SourceLocation | None]] = []
+    warnings: list[tuple[tuple[str, int, int], str]] = []
+    for diagnostic in compilation.getAllDiagnostics():
+        severity = engine.getSeverity(diagnostic.code, diagnostic.location)
+        where = location_of(source_manager, diagnostic.location)
+        message = engine.formatMessage(diagnostic)
+        key = (where.file, where.line, where.column)
+        if severity in (pyslang.DiagnosticSeverity.Error, pyslang.DiagnosticSeverity.Fatal):
+            code = str(diagnostic.code)[9:-1]
+            if code == "InvalidTopModule":
+                message = message.rstrip(".") + " (check --top)"
+            elif code == "ExceededMaxIncludeDepth":
+                # slang stops a file that includes itself only at its depth limit; say why
+                message += " (does a file `include itself, directly or through others?)"
+            errors.append((key, message, where if where.file != "<unknown>" else None))
+        elif severity == pyslang.DiagnosticSeverity.Warning:
+            option = engine.getOptionName(diagnostic.code) or str(diagnostic.code)[9:-1]
+            if option not in _QUIET_WARNINGS:
+                warnings.append((key, f"{where}: warning: {message} [{option}]"))
+    first_error = min(errors, key=lambda item: item[0])[1:] if errors else None
+    return DiagnosticOutcome(first_error, [text for _, text in sorted(warnings)])
+
+
+class DiagnosticsJob:
+    """The pass over one compilation, finished at once or still running in a child process."""
+
+    def __init__(self, compilation: ast.Compilation, source_manager: pyslang.SourceManager,
+                 in_background: bool) -> None:
+        self._compilation = compilation
+        self._source_manager = source_manager
+        self._outcome: DiagnosticOutcome | None = None
+        self._child: tuple[int, int] | None = None  # (pid, read end of its pipe)
+        if in_background and hasattr(os, "fork"):
+            self._child = self._fork()
+        self.forked = self._child is not None
+        if self._child is None:
+            self._outcome = collect(compilation, source_manager)
+
+    def _fork(self) -> tuple[int, int] | None:
+        read_end, write_end = os.pipe()
+        try:
+            pid = os.fork()
+        except OSError:
+            os.close(read_end)
+            os.close(write_end)
+            return None
+        if pid == 0:  # the child: never returns into the caller's code
+            try:
+                os.close(read_end)
+                try:
+                    payload = pickle.dumps(collect(self._compilation, self._source_manager))
+                except BaseException:  # noqa: BLE001 - an empty answer makes the parent redo the pass
+                    payload = b""
+                with os.fdopen(write_end, "wb") as pipe:
+                    pipe.write(payload)
+            finally:
+                os._exit(0)
+        os.close(write_end)
+        return pid, read_end
+
+    def outcome(self) -> DiagnosticOutcome:
+        """Wait for the pass; a child that died or answered nothing is replaced by the pass in-process."""
+        if self._outcome is None:
+            assert self._child is not None
+            pid, read_end = self._child
+            self._child = None
+            with os.fdopen(read_end, "rb") as pipe:
+                payload = pipe.read()
+            os.waitpid(pid, 0)
+            try:
+                self._outcome = pickle.loads(payload) if payload else None
+            except (pickle.UnpicklingError, EOFError):
+                self._outcome = None
+            if not isinstance(self._outcome, DiagnosticOutcome):
+                self._outcome = collect(self._compilation, self._source_manager)
+        return self._outcome
+
+    def warnings(self) -> list[str]:
+        """The warnings worth showing; raises :class:`InputError` for slang's first error."""
+        outcome = self.outcome()
+        outcome.raise_error()
+        return outcome.warnings
+
+    def abandon(self) -> None:
+        """Stop a child still running (the caller is failing for another reason) and reap it."""
+        if self._child is not None:
+            pid, read_end = self._child
+            self._child = None
+            try:
+                os.kill(pid, signal.SIGKILL)
+            except ProcessLookupError:
+                pass
+            os.close(read_end)
+            os.waitpid(pid, 0)

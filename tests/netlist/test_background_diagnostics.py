@@ -1,0 +1,98 @@
+"""slang's diagnostics pass run in a forked child gives exactly what it gives in-process.
+
+On big designs the front end runs ``getAllDiagnostics`` in a child process while it extracts
+(:mod:`linter.netlist.slang_diagnostics`). Here the size threshold is set to zero so the small
+fixtures take that path too; every error and warning must be the one the in-process pass gives,
+the first error must still win over anything extraction does with a broken design, and a child
+that dies must not lose a diagnostic. Expected messages are the ones ``test_bad_input.py`` and
+``test_constructs.py`` pin down (slang's own wording, pyslang 12.1.0, observed).
+"""
+
+from __future__ import annotations
+
+import os
+from pathlib import Path
+
+import pytest
+
+from linter.errors import InputError
+from linter.netlist import build_design, slang_diagnostics, source
+from linter.netlist.source import elaborate
+
+FIXTURES = Path(__file__).parent / "fixtures"
+
+ERRORS = {
+    "syntax_error.v": ([], "syntax_error.v:3:14: error: expected ','"),
+    "hierarchy.v": (["nosuch"], "levelcross: error: 'nosuch' is not a valid top-level module (check --top)"),
+    "self_include.v": ([], ("self_include.v:2:10: error: exceeded max include depth "
+                            "(does a file `include itself, directly or through others?)")),
+    "missing_include.v": ([], "missing_include.v:2:10: error: 'no_such_header.vh': No such file or directory"),
+}
+
+
+@pytest.fixture()
+def always_in_background(monkeypatch: pytest.MonkeyPatch) -> None:
+    monkeypatch.setattr(source, "BACKGROUND_FROM_BYTES", 0)
+    monkeypatch.chdir(FIXTURES)
+
+
+def _first_error(name: str, top: list[str]) -> str:
+    with pytest.raises(InputError) as raised:
+        build_design([name], top=top[0] if top else None)
+    return raised.value.one_line()
+
+
+@pytest.mark.parametrize("name", sorted(ERRORS))
+def test_the_first_error_is_the_same_from_the_child(name: str, always_in_background: None) -> None:
+    top, expected = ERRORS[name]
+    assert _first_error(name, top) == expected
+
+
+@pytest.mark.parametrize("name", ["syntax_error.v", "self_include.v", "missing_include.v"])
+def test_these_errors_do_come_from_the_child(name: str, always_in_background: None) -> None:
+    # each still elaborates to one top, so the pass runs in the child and extraction goes on
+    job = elaborate([name], background=True).diagnostics
+    assert job.forked
+    with pytest.raises(InputError) as raised:
+        job.warnings()
+    assert raised.value.one_line() == ERRORS[name][1]
+
+
+def test_warnings_are_the_same_from_the_child(always_in_background: None) -> None:
+    forked = elaborate(["generate.v"], background=True)
+    in_process = elaborate(["generate.v"], background=False)
+    assert forked.diagnostics.forked and not in_process.diagnostics.forked
+    assert forked.warnings == in_process.warnings
+    assert build_design(["generate.v"]).diagnostics == [
+        "generate.v:21:13: warning: implicit net 'imp' created [implicit-net]"
+    ]
+
+
+def test_a_child_that_dies_is_replaced_by_the_pass_in_process(
+        always_in_background: None, monkeypatch: pytest.MonkeyPatch) -> None:
+    parent = os.getpid()
+    real_collect = slang_diagnostics.collect
+
+    def die_in_the_child(*args: object):
+        if os.getpid() != parent:
+            os._exit(3)  # no answer at all, as after a crash
+        return real_collect(*args)
+
+    monkeypatch.setattr(slang_diagnostics, "collect", die_in_the_child)
+    assert _first_error("syntax_error.v", []) == ERRORS["syntax_error.v"][1]
+    assert build_design(["generate.v"]).diagnostics[0].endswith("implicit net 'imp' created [implicit-net]")
+
+
+def test_an_abandoned_child_is_stopped_and_reaped(always_in_background: None) -> None:
+    job = elaborate(["hierarchy.v"], background=True).diagnostics
+    assert job.forked
+    job.abandon()
+    with pytest.raises(ChildProcessError):
+        os.waitpid(-1, os.WNOHANG)  # no child left, not even a zombie
+
+
+def test_small_designs_stay_in_process(monkeypatch: pytest.MonkeyPatch) -> None:
+    monkeypatch.chdir(FIXTURES)
+    assert not elaborate(["hierarchy.v"], background=None).diagnostics.forked
+    monkeypatch.setattr(source, "BACKGROUND_FROM_BYTES", 1)
+    assert elaborate(["hierarchy.v"], background=None).diagnostics.forked
