@@ -35,8 +35,9 @@ _TIE_KIND = {-1: "tie0", -2: "tie1", -3: "tiex", -4: "tiez"}
 
 @dataclass
 class _Arrays:
-    """A template's lists as numpy arrays, built once per template."""
+    """A template's numeric lists as numpy arrays, built once per template."""
 
+    net_location: np.ndarray
     alias_a: np.ndarray
     alias_b: np.ndarray
     cell_class: np.ndarray
@@ -48,15 +49,18 @@ class _Arrays:
     arc_from: np.ndarray
     arc_to: np.ndarray
 
+    _TAKEN = ("net_location", "alias_a", "alias_b", "cell_class", "cell_arc_mode", "cell_location",
+              "cell_pin_start", "pin_net", "pin_direction", "arc_from_pin", "arc_to_pin")
+
     @classmethod
-    def of(cls, t: Template) -> _Arrays:
-        i32 = np.int32
-        return cls(
-            np.asarray(t.alias_a, i32), np.asarray(t.alias_b, i32), np.asarray(t.cell_class, np.int8),
-            np.asarray(t.cell_arc_mode, np.int8), np.asarray(t.cell_location, i32),
-            np.asarray(t.cell_pin_start, i32), np.asarray(t.pin_net, i32), np.asarray(t.pin_direction, np.int8),
-            np.asarray(t.arc_from_pin, i32), np.asarray(t.arc_to_pin, i32),
-        )
+    def take(cls, t: Template) -> _Arrays:
+        """The arrays of ``t``, whose own columns are emptied: a million-cell body's are tens of MB."""
+        i32, i8 = np.int32, np.int8
+        types = (i32, i32, i32, i8, i8, i32, i32, i32, i8, i32, i32)  # in the order of _TAKEN
+        arrays = cls(*(np.array(getattr(t, name), dtype) for name, dtype in zip(cls._TAKEN, types)))  # copies
+        for name in cls._TAKEN:
+            del getattr(t, name)[:]
+        return arrays
 
 
 @dataclass
@@ -88,7 +92,7 @@ class Flattener:
         entry = self.templates.get(body)
         if entry is None:
             template = TemplateBuilder(body, self.locations, self.leaf_modules, self.facts, self.listings).build()
-            entry = self.templates[body] = (template, _Arrays.of(template))
+            entry = self.templates[body] = (template, _Arrays.take(template))
         return entry
 
     def _visit(self, body: ast.Symbol, path: str, depth: int) -> _Instance:
@@ -175,7 +179,7 @@ class Flattener:
         locations.resolve()
         net_names, aliases = self._names(net_of_raw, rep_raw)
         raw_location = np.concatenate(
-            [np.asarray(inst.template.net_location, np.int32) for inst in self.instances]
+            [inst.arrays.net_location for inst in self.instances]
         ) if self.instances else np.zeros(0, np.int32)
         net_location = raw_location[rep_raw] if rep_raw.size else np.zeros(0, np.int32)
 

@@ -28,6 +28,7 @@ offsets into the source buffer, as slang's locations are.
 from __future__ import annotations
 
 import re
+from array import array
 from dataclasses import dataclass, field
 from itertools import accumulate
 from operator import itemgetter
@@ -68,7 +69,7 @@ class NetDeclaration:
     """One ``wire`` statement: the names as written (escaped ones with their backslash), in order."""
 
     tokens: list[bytes]
-    offsets: list[int]
+    offsets: array  # of each name, as the tokens
     msb: int | None  # None: one bit each, no range
     lsb: int | None
 
@@ -88,12 +89,18 @@ class GateListing:
     nets: list[NetDeclaration] = field(default_factory=list)
     gate_kinds: list[str] = field(default_factory=list)
     gate_names: list[bytes | None] = field(default_factory=list)  # as written; None: anonymous
-    gate_offsets: list[int] = field(default_factory=list)  # of the name, or of "(" if anonymous
-    terms: list[bytes] = field(default_factory=list)  # every gate's terms in turn, stripped
-    term_counts: list[int] = field(default_factory=list)  # how many terms each gate has
+    # Offsets and counts are typed arrays, and the terms are kept as comma-joined text a slice at
+    # a time: millions of small Python objects would be several times the size.
+    gate_offsets: array = field(default_factory=lambda: array("q"))  # of the name, or of "(" if anonymous
+    term_text: list[bytes] = field(default_factory=list)  # every gate's terms in turn, stripped, joined by ","
+    term_counts: array = field(default_factory=lambda: array("i"))  # how many terms each gate has
     escaped_names: bool = False  # whether any name is written escaped (with a backslash)
     # the port declarations; None if any is more than directions, names and a numeric range
     ports: list[PortDeclaration] | None = field(default_factory=list)
+
+    @property
+    def terms(self) -> list[bytes]:
+        return [term for text in self.term_text for term in text.split(b",")]
 
     def add_port(self, word: bytes, rest: bytes, offset: int) -> None:
         """A port statement whose text after the keyword, ``rest``, starts at ``offset``."""
@@ -202,9 +209,9 @@ def _add_terms(listing: GateListing, term_lists: list[bytes], no_escaped_names: 
         return
     joined = b",".join(term_lists)
     if no_escaped_names:  # no space can end a name, so all of it can go at once
-        listing.terms.extend(joined.translate(None, _WHITESPACE).split(b","))
+        listing.term_text.append(joined.translate(None, _WHITESPACE))
     else:
-        listing.terms.extend([term.strip() for term in joined.split(b",")])
+        listing.term_text.append(b",".join([term.strip() for term in joined.split(b",")]))
     listing.term_counts.extend([terms.count(b",") + 1 for terms in term_lists])
 
 
@@ -280,5 +287,5 @@ def _net_declaration(front: bytes, offset: int) -> NetDeclaration | None:
         return None  # an array, an attribute, a type keyword: more than a name
     # each part starts one comma after the previous one ends; its token after any leading space
     starts = accumulate((len(part) + 1 for part in parts[:-1]), initial=offset)
-    offsets = [begin + len(part) - len(part.lstrip()) for begin, part in zip(starts, parts)]
+    offsets = array("q", [begin + len(part) - len(part.lstrip()) for begin, part in zip(starts, parts)])
     return NetDeclaration(tokens, offsets, msb, lsb)

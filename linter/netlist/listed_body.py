@@ -9,6 +9,7 @@ listing cannot be resolved the same way, nothing is kept and the caller walks th
 from __future__ import annotations
 
 import re
+from array import array
 from itertools import accumulate, chain
 
 import pyslang
@@ -41,6 +42,7 @@ _TERM = re.compile(rb"\s*(?:(" + IDENTIFIER_PATTERN + rb")\s*(?:\[\s*(\d+)\s*\])
 _CONSTANT_DIGIT = {b"0": CONST0, b"1": CONST1, b"x": CONSTX, b"X": CONSTX, b"z": CONSTZ, b"Z": CONSTZ}
 _CONSTANT_TERMS = {b"1'" + base + digit: bit for digit, bit in _CONSTANT_DIGIT.items() for base in (b"b", b"B")}
 _ONE_BIT = TypeShape(1, 0, 0, True, 1, False)
+_KEEP_GATES = 100_000
 _PORT_DIRECTION = {"input": PinDirection.IN, "output": PinDirection.OUT, "inout": PinDirection.INOUT}
 _TERMINALS = tuple(f"t{position}" for position in range(16))
 _N_INPUT = {"and", "nand", "or", "nor", "xor", "xnor"}  # the rest (buf, not) have N outputs
@@ -65,7 +67,8 @@ class GateListings:
 
     def __init__(self, texts: SourceTexts) -> None:
         self.texts = texts
-        self.read: dict[tuple[int, int], GateListing | None] = {}  # (buffer, offset) -> listing
+        self._kept: dict[tuple[int, int], GateListing | None] = {}  # (buffer, offset) -> listing
+        self.bodies_listed = 0  # bodies served a listing
 
     def of(self, declaration: syntax.SyntaxNode | None) -> tuple[GateListing, pyslang.SourceLocation] | None:
         """The listing of a module declaration and where its items start, or None if it has none."""
@@ -78,10 +81,18 @@ class GateListings:
         if not sm.isFileLoc(start) or sm.isMacroLoc(start) or sm.isMacroLoc(end):
             return None
         key = (start.buffer.id, start.offset)
-        if key not in self.read:
-            self.read[key] = read_gate_listing(self.texts.text(start.buffer), start.offset, end.offset)
-        listing = self.read[key]
-        return None if listing is None else (listing, start)
+        if key in self._kept:
+            listing = self._kept[key]
+        else:
+            listing = read_gate_listing(self.texts.text(start.buffer), start.offset, end.offset)
+            # kept for the other bodies of the declaration (parameter values) unless it is big:
+            # a million gates' terms are hundreds of MB, and such a body is rarely specialised
+            if listing is None or len(listing.gate_kinds) < _KEEP_GATES:
+                self._kept[key] = listing
+        if listing is None:
+            return None
+        self.bodies_listed += 1
+        return listing, start
 
 
 class ListedGateCells:
@@ -139,18 +150,22 @@ class ListedGateCells:
         nets = self._listed_nets(listing, bits_of_name, bit_of_token, ports_from_text)
         if nets is None:
             return False
-        pin_net = list(map(bit_of_token.get, listing.terms))
-        if None in pin_net:
-            for position, term in enumerate(listing.terms):
-                if pin_net[position] is None:
-                    pin_net[position] = _term_bit(term, bits_of_name, bit_of_token)
-                    if pin_net[position] is None:
-                        return False
+        pin_net = array("i")
+        for text in listing.term_text:
+            terms = text.split(b",")
+            bits = list(map(bit_of_token.get, terms))
+            if None in bits:
+                for position, term in enumerate(terms):
+                    if bits[position] is None:
+                        bits[position] = _term_bit(term, bits_of_name, bit_of_token)
+                        if bits[position] is None:
+                            return False
+            pin_net.extend(bits)
         self._keep_listed(listing, sample, nets, pin_net)
         return True
 
     def _listed_nets(self, listing: GateListing, bits_of_name: dict[str, SymbolBits],
-                     bit_of_token: dict[bytes, int], ports_from_text: bool) -> tuple[list[str], list[int]] | None:
+                     bit_of_token: dict[bytes, int], ports_from_text: bool) -> tuple[list[str], array] | None:
         """Bits for the declared wires, after those of the ports: their names and source offsets.
 
         A one-bit wire goes into ``bit_of_token`` only, a vector into ``bits_of_name`` as well.
@@ -158,7 +173,7 @@ class ListedGateCells:
         that is left to slang (None), which knows which of the two declarations the net is.
         """
         net_names: list[str] = []
-        net_offsets: list[int] = []
+        net_offsets = array("q")
         next_bit = len(self.template.net_names)
         port_names = set(self.port_bits_by_name)
         for declaration in listing.nets:
@@ -189,7 +204,7 @@ class ListedGateCells:
         return net_names, net_offsets
 
     def _keep_listed(self, listing: GateListing, sample: pyslang.SourceLocation,
-                     nets: tuple[list[str], list[int]], pin_net: list[int]) -> None:
+                     nets: tuple[list[str], array], pin_net: array) -> None:
         t = self.template
         net_names, net_offsets = nets
         first = self.locations.intern_offsets(sample, net_offsets)

@@ -8,6 +8,9 @@ resolved one by one through slang.
 
 from __future__ import annotations
 
+from array import array
+from collections.abc import Sequence
+
 import numpy as np
 import pyslang
 
@@ -21,8 +24,8 @@ class LocationTable:
     def __init__(self, source_manager: pyslang.SourceManager) -> None:
         self._source_manager = source_manager
         self.texts = SourceTexts(source_manager)
-        self._buffer: list[int] = [0]
-        self._offset: list[int] = [0]
+        self._buffer = array("i", [0])  # typed arrays: a million entries are no million int objects
+        self._offset = array("q", [0])
         self._is_file: dict[int, bool] = {0: False}
         self._sample: dict[int, pyslang.SourceLocation] = {}
         self._special: dict[int, pyslang.SourceLocation] = {}
@@ -51,7 +54,7 @@ class LocationTable:
             self._special[len(self._buffer) - 1] = loc
         return len(self._buffer) - 1
 
-    def intern_offsets(self, sample: pyslang.SourceLocation, offsets: list[int]) -> int:
+    def intern_offsets(self, sample: pyslang.SourceLocation, offsets: Sequence[int]) -> int:
         """Ids for many byte offsets in the plain file buffer of ``sample``; returns the first id.
 
         The ids are consecutive, one per offset, in the order given.
@@ -61,7 +64,7 @@ class LocationTable:
             self._is_file[buffer] = True
             self._sample[buffer] = sample
         first = len(self._buffer)
-        self._buffer.extend([buffer] * len(offsets))
+        self._buffer.extend(array("i", [buffer]) * len(offsets))
         self._offset.extend(offsets)
         return first
 

@@ -19,7 +19,6 @@ from linter.errors import InputError
 from linter.netlist.slang_diagnostics import (
     BACKGROUND_FROM_BYTES,
     DiagnosticsJob,
-    collect,
 )
 from linter.textfile import read_text_input
 
@@ -91,18 +90,22 @@ def elaborate(
     for path in paths:
         compilation.addSyntaxTree(syntax.SyntaxTree.fromFile(str(path), source_manager, bag))
 
-    root = compilation.getRoot()
-    tops = list(root.topInstances)
-    if len(tops) != 1:  # slang's own error, if it has one, says more than ours
-        collect(compilation, source_manager).raise_error()
-    if not tops:
-        raise InputError(f"no top module found in {', '.join(str(p) for p in paths)}")
-    if len(tops) > 1:
-        names = ", ".join(sorted(t.name for t in tops))
-        raise InputError(f"several top modules ({names}); choose one with --top")
     if background is None:
         background = sum(path.stat().st_size for path in paths) >= BACKGROUND_FROM_BYTES
+    # forked before getRoot, so the child elaborates while the parent does too
     diagnostics = DiagnosticsJob(compilation, source_manager, background)
-    if not background:
-        diagnostics.warnings()
+    try:
+        if not background:
+            diagnostics.warnings()
+        tops = list(compilation.getRoot().topInstances)
+        if len(tops) != 1:
+            diagnostics.warnings()  # slang's own error, if it has one, says more than ours
+        if not tops:
+            raise InputError(f"no top module found in {', '.join(str(p) for p in paths)}")
+        if len(tops) > 1:
+            names = ", ".join(sorted(t.name for t in tops))
+            raise InputError(f"several top modules ({names}); choose one with --top")
+    except BaseException:
+        diagnostics.abandon()
+        raise
     return ElaboratedSource(compilation, source_manager, tops[0], diagnostics)

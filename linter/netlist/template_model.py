@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import re
+from array import array
 from dataclasses import dataclass, field
 
 from pyslang import ast
@@ -44,28 +45,38 @@ class ChildLink:
     links: list[tuple[str, list[int]]]  # (child port name, parent local bits, LSB first)
 
 
+def _ints() -> array:
+    return array("i")
+
+
+def _small_ints() -> array:
+    return array("b")
+
+
 @dataclass
 class Template:
     """Everything one module body contributes, in local ids."""
 
+    # The numeric columns are typed arrays, not lists: a list of a million ints is a million
+    # int objects besides the list.
     module: str
     net_names: list[str] = field(default_factory=list)
-    net_location: list[int] = field(default_factory=list)  # LocationTable ids
+    net_location: array = field(default_factory=_ints)  # LocationTable ids
     ports: list[PortInfo] = field(default_factory=list)
-    alias_a: list[int] = field(default_factory=list)
-    alias_b: list[int] = field(default_factory=list)
+    alias_a: array = field(default_factory=_ints)
+    alias_b: array = field(default_factory=_ints)
     ties: list[tuple[int, int]] = field(default_factory=list)  # (bit, constant)
     cell_names: list[str] = field(default_factory=list)
     cell_kinds: list[str] = field(default_factory=list)
-    cell_class: list[int] = field(default_factory=list)
-    cell_arc_mode: list[int] = field(default_factory=list)
-    cell_location: list[int] = field(default_factory=list)
-    cell_pin_start: list[int] = field(default_factory=lambda: [0])
-    pin_net: list[int] = field(default_factory=list)
-    pin_direction: list[int] = field(default_factory=list)
+    cell_class: array = field(default_factory=_small_ints)
+    cell_arc_mode: array = field(default_factory=_small_ints)
+    cell_location: array = field(default_factory=_ints)
+    cell_pin_start: array = field(default_factory=lambda: array("i", [0]))
+    pin_net: array = field(default_factory=_ints)
+    pin_direction: array = field(default_factory=_small_ints)
     pin_names: list[str] = field(default_factory=list)
-    arc_from_pin: list[int] = field(default_factory=list)
-    arc_to_pin: list[int] = field(default_factory=list)
+    arc_from_pin: array = field(default_factory=_ints)
+    arc_to_pin: array = field(default_factory=_ints)
     children: list[ChildLink] = field(default_factory=list)
     unknown_cells: list[int] = field(default_factory=list)
     warnings: list[str] = field(default_factory=list)
