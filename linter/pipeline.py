@@ -14,7 +14,7 @@ from linter.checks.engine import CheckResult, run_checks
 from linter.checks.finding import Severity
 from linter.electrical.design_model import Design
 from linter.errors import UsageError
-from linter.netlist import DesignGraph, build_design
+from linter.netlist import DesignGraph, PendingDesign, start_design
 from linter.netlist.progress import Progress
 from linter.report.model import CheckReport
 
@@ -36,17 +36,23 @@ def load_check_design(args: argparse.Namespace) -> Design:
     return bare_design(verilog, args.top, args.include_dirs, args.defines, args.family, args.rail, args.family_dir)
 
 
-def read_netlist(design: Design, progress: bool = False) -> DesignGraph:
+def start_netlist(design: Design, progress: bool = False) -> PendingDesign:
+    """The design's netlist, while slang may still be checking it: see :class:`PendingDesign`."""
     spec = design.netlist
     leaf_modules = [name for name in design.parts.parts]
     with Progress(enabled=progress) as bar:
-        return build_design(spec.files, spec.top or None, spec.include_dirs,
+        return start_design(spec.files, spec.top or None, spec.include_dirs,
                             [n if v is None else f"{n}={v}" for n, v in spec.defines],
                             leaf_modules=leaf_modules, progress=bar)
 
 
+def read_netlist(design: Design, progress: bool = False) -> DesignGraph:
+    return start_netlist(design, progress).finish()
+
+
 def annotate_design(design: Design, progress: bool = False) -> Annotation:
-    return annotate(read_netlist(design, progress), design)
+    with start_netlist(design, progress) as graph:
+        return annotate(graph, design)
 
 
 def check_annotation(annotation: Annotation, rules: Iterable[str] | None = None,
@@ -61,8 +67,11 @@ def check_design(design: Design, rules: Iterable[str] | None = None,
     from linter.checks.rules.family_unassigned import assignment_coverage
     from linter.cli import CAUTION
 
-    annotation = annotate_design(design, progress)
-    result = check_annotation(annotation, rules, overrides)
+    # annotation and rules run while slang's diagnostics pass may still be running on a big
+    # design; leaving the block waits for it, and its first error wins over any result
+    with start_netlist(design, progress) as graph:
+        annotation = annotate(graph, design)
+        result = check_annotation(annotation, rules, overrides)
     return CheckReport(
         design=annotation.graph.top,
         design_file=None if str(design.path).startswith("<") else str(design.path),

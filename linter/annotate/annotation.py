@@ -94,14 +94,16 @@ def annotate(graph: DesignGraph, design: Design) -> Annotation:
     family_index = _Index(design.families)
     rail_index = _Index(design.rails)
     cells = resolver.cells(graph.cell_names, graph.cell_kinds, graph.cell_module)
-    by_assignment: dict[int, tuple[int, int]] = {}
-    cell_family = np.empty(graph.cell_count, np.int16)
-    cell_rail = np.empty(graph.cell_count, np.int16)
-    for c, assignment in enumerate(cells):
-        key = by_assignment.get(id(assignment))
-        if key is None:
-            key = by_assignment[id(assignment)] = (family_index(assignment.family), rail_index(assignment.rail))
-        cell_family[c], cell_rail[c] = key
+    # the resolver shares one object per distinct assignment: number those, then index arrays
+    code_of: dict[int, int] = {}
+    distinct: list[CellAssignment] = []
+    for assignment in {id(a): a for a in cells}.values():
+        code_of[id(assignment)] = len(distinct)
+        distinct.append(assignment)
+    codes = np.fromiter(map(code_of.__getitem__, map(id, cells)), np.int32, len(cells))
+    cell_family = np.asarray([family_index(a.family) for a in distinct], np.int16)[codes]
+    cell_rail = np.asarray([rail_index(a.rail) for a in distinct], np.int16)[codes]
+    with_part = np.asarray([a.part is not None for a in distinct], bool)
 
     counts = np.diff(graph.cell_pin_start)
     pin_family = np.repeat(cell_family, counts)
@@ -123,7 +125,7 @@ def annotate(graph: DesignGraph, design: Design) -> Annotation:
     is_tie = graph.cell_class == CellClass.TIE
     special = {c for c, kind in enumerate(kinds) if kind in special_kinds}
     special.update(np.flatnonzero(is_tie).tolist())
-    special.update(c for c, assignment in enumerate(cells) if assignment.part is not None)
+    special.update(np.flatnonzero(with_part[codes]).tolist())
     for c in sorted(special):  # few cells need more than their cell's family and rail
         kind = kinds[c]
         assignment = cells[c]

@@ -14,6 +14,7 @@ import numpy as np
 
 from linter.errors import SourceLocation
 from linter.netlist.graph import DesignGraph
+from linter.stable_order import stable_order
 
 
 class DriveKind(IntEnum):
@@ -53,7 +54,7 @@ class Endpoints:
 
     def __post_init__(self) -> None:
         connected = np.flatnonzero(self.net >= 0)
-        order = connected[np.argsort(self.net[connected], kind="stable")]
+        order = connected[stable_order(self.net[connected], self.graph.net_count)]
         counts = np.bincount(self.net[connected], minlength=self.graph.net_count)
         self._order = order
         self._start = np.concatenate(([0], np.cumsum(counts))).astype(np.int64)

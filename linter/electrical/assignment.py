@@ -13,7 +13,7 @@ shares one cached result per (module path, kind). A million cells resolve in sec
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 
 from linter.electrical.design_model import (
@@ -131,6 +131,9 @@ class AssignmentResolver:
     def cell(self, name: str, kind: str, module_path: str) -> CellAssignment:
         """The settings of the cell ``name`` of kind ``kind`` inside module instance ``module_path``."""
         rules = self._cells.matching_under(module_path + ".", name) if self._cells else []
+        return self._resolved(module_path, kind, rules)
+
+    def _resolved(self, module_path: str, kind: str, rules: Sequence[AssignmentRule]) -> CellAssignment:
         # Cells under one module path, of one kind, matched by the same rules resolve alike: one
         # shared object per combination keeps a million cells cheap (and lets callers key on id).
         key = (module_path, kind, *map(id, rules))
@@ -144,8 +147,16 @@ class AssignmentResolver:
         self, names: Sequence[str], kinds: Sequence[str], module_paths: Sequence[str]
     ) -> list[CellAssignment]:
         """:meth:`cell` for parallel lists, such as a design graph's cell_names, cell_kinds, cell_module."""
-        resolve = self.cell
-        return [resolve(name, kind, path) for name, kind, path in zip(names, kinds, module_paths, strict=True)]
+        keys = list(zip(module_paths, kinds, strict=True))
+        if not self._cells:
+            rules_each: Iterable[Sequence[AssignmentRule]] = [()] * len(keys)
+        else:
+            dotted = {path: path + "." for path in set(module_paths)}
+            rules_each = self._cells.matching_each([dotted[path] for path in module_paths], names)
+        # most cells match no rule: those resolve per (module path, kind), looked up, not recomputed
+        unmatched = {key: self._resolved(*key, ()) for key in set(keys)}
+        resolved = self._resolved
+        return [resolved(*key, rules) if rules else unmatched[key] for key, rules in zip(keys, rules_each)]
 
     def _finish(self, layer: _Layer, kind: str) -> CellAssignment:
         part = layer.part if layer.part is not None else (kind if kind in self.design.parts else None)

@@ -11,7 +11,45 @@ from linter.netlist.flatten import Flattener
 from linter.netlist.graph import DesignGraph
 from linter.netlist.locations import LocationTable
 from linter.netlist.progress import Progress
-from linter.netlist.source import elaborate
+from linter.netlist.source import ElaboratedSource, elaborate
+
+
+class PendingDesign:
+    """A design graph whose source may still be under slang's diagnostics pass (in a child process).
+
+    Use it as a context manager: the body gets the graph to analyse while the pass runs, and
+    leaving the block waits for the pass and raises its first error, which also replaces any
+    error the body raised (an analysis of a broken design fails for the reason slang gives).
+    Nothing computed in the block may be written out before the block is left.
+    """
+
+    def __init__(self, graph: DesignGraph, source: ElaboratedSource) -> None:
+        self.graph = graph
+        self._source: ElaboratedSource | None = source
+
+    def finish(self) -> DesignGraph:
+        """Wait for the pass; raise its first error, or add its warnings and let the compilation go."""
+        if self._source is not None:
+            warnings = self._source.diagnostics.warnings()
+            self.graph.diagnostics = sorted(set(warnings) | set(self.graph.diagnostics))
+            # the compilation holds far more memory than the graph
+            self._source = None
+            gc.collect()
+        return self.graph
+
+    def abandon(self) -> None:
+        if self._source is not None:
+            self._source.diagnostics.abandon()
+            self._source = None
+
+    def __enter__(self) -> DesignGraph:
+        return self.graph
+
+    def __exit__(self, kind: type[BaseException] | None, *_: object) -> None:
+        if kind is None or issubclass(kind, Exception):
+            self.finish()  # on an error in the block: slang's error, if it has one, wins
+        else:  # an interrupt: stop the child too
+            self.abandon()
 
 
 def build_design(
@@ -28,23 +66,35 @@ def build_design(
     library). ``progress``, if given, is told about each phase; it never affects the result.
     Raises :class:`~linter.errors.InputError` for bad input.
     """
+    return start_design(files, top, include_dirs, defines, leaf_modules, progress).finish()
+
+
+def start_design(
+    files: Sequence[str | Path],
+    top: str | None = None,
+    include_dirs: Sequence[str | Path] = (),
+    defines: Mapping[str, str] | Sequence[str] = (),
+    leaf_modules: Collection[str] = (),
+    progress: Progress | None = None,
+) -> PendingDesign:
+    """:func:`build_design`, returning before slang's diagnostics pass (run in a child on a big
+    design) has finished, so that analysis can overlap it. See :class:`PendingDesign`."""
     # Extraction allocates millions of small objects and frees none of them; the cyclic garbage
     # collector would walk them all again and again (a quarter of the time at a million cells).
     collecting = gc.isenabled()
     gc.disable()
     try:
-        return _build(files, top, include_dirs, defines, leaf_modules, progress)
+        return _start(files, top, include_dirs, defines, leaf_modules, progress)
     finally:
         if collecting:
             gc.enable()
 
 
-def _build(files: Sequence[str | Path], top: str | None, include_dirs: Sequence[str | Path],
+def _start(files: Sequence[str | Path], top: str | None, include_dirs: Sequence[str | Path],
            defines: Mapping[str, str] | Sequence[str], leaf_modules: Collection[str],
-           progress: Progress | None) -> DesignGraph:
+           progress: Progress | None) -> PendingDesign:
     phase = progress.phase if progress is not None else (lambda name, total=None: nullcontext(None))
     with phase("parsing and elaborating"):
-        # on a big design slang's diagnostics pass runs in a child process while we extract
         source = elaborate(files, top, include_dirs, defines, background=None)
     try:
         with phase("flattening") as advance:
@@ -56,10 +106,4 @@ def _build(files: Sequence[str | Path], top: str | None, include_dirs: Sequence[
     except BaseException:  # an interrupt: stop the child too
         source.diagnostics.abandon()
         raise
-    with phase("checking the source"):
-        warnings = source.diagnostics.warnings()
-    graph.diagnostics = sorted(set(warnings) | set(graph.diagnostics))
-    # The compilation holds far more memory than the graph; let it go before analysis starts.
-    del flattener, source
-    gc.collect()
-    return graph
+    return PendingDesign(graph, source)

@@ -280,6 +280,22 @@ def test_pattern_table_precedence_and_prefix_screening() -> None:
     assert table.best("other") is None
 
 
+def test_column_matching_equals_name_by_name() -> None:
+    # every name against the patterns of the precedence test above, plus names no pattern
+    # matches, names equal to a glob's text, and names outside the prefix they are said to be under
+    patterns = ["top.*", "top.u1.*", "top.u1.g?", "top.u1.?3", "top.u1.g3", "top.u[12].h*", "x*"]
+    table = PatternTable((NamePattern(text), text) for text in patterns)
+    names = ["top.u1.g3", "top.u1.g4", "top.u1.h3", "top.u2.h7", "top.u1.*", "other", "xy", "top.u3.k"]
+    prefixes = ["top.u1.", "top.u1.", "top.u1.", "top.u2.", "top.u1.", "", "", "elsewhere."]
+    one_by_one = [table.matching_under(prefix, name) for prefix, name in zip(prefixes, names)]
+    assert [list(found) for found in table.matching_each(prefixes, names)] == one_by_one
+    # without the names that equal a pattern's text the column path (shared answers) is taken
+    plain = [(prefix, name) for prefix, name in zip(prefixes, names) if name not in patterns]
+    answers = table.matching_each([p for p, _ in plain], [n for _, n in plain])
+    assert [list(found) for found in answers] == [table.matching_under(p, n) for p, n in plain]
+    assert answers[0] == ["top.u1.g?", "top.u1.*", "top.*"]  # top.u1.g4, most specific first
+
+
 @pytest.mark.parametrize(
     ("text", "message"),
     [

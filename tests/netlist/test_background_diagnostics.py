@@ -11,12 +11,14 @@ that dies must not lose a diagnostic. Expected messages are the ones ``test_bad_
 from __future__ import annotations
 
 import os
+import subprocess
+import sys
 from pathlib import Path
 
 import pytest
 
 from linter.errors import InputError
-from linter.netlist import build_design, slang_diagnostics, source
+from linter.netlist import build_design, slang_diagnostics, source, start_design
 from linter.netlist.source import elaborate
 
 FIXTURES = Path(__file__).parent / "fixtures"
@@ -96,3 +98,51 @@ def test_small_designs_stay_in_process(monkeypatch: pytest.MonkeyPatch) -> None:
     assert not elaborate(["hierarchy.v"], background=None).diagnostics.forked
     monkeypatch.setattr(source, "BACKGROUND_FROM_BYTES", 1)
     assert elaborate(["hierarchy.v"], background=None).diagnostics.forked
+
+
+def test_analysis_overlapping_the_pass_still_ends_in_slangs_error(always_in_background: None) -> None:
+    pending = start_design(["syntax_error.v"])
+    with pytest.raises(InputError) as raised, pending as graph:
+        assert graph.cell_count >= 0  # analysis may run on what was extracted ...
+    assert raised.value.one_line() == ERRORS["syntax_error.v"][1]  # ... but nothing of it counts
+
+
+def test_slangs_error_replaces_an_error_of_the_analysis(always_in_background: None) -> None:
+    with pytest.raises(InputError) as raised, start_design(["syntax_error.v"]):
+        raise ValueError("an analysis tripping over the broken design")
+    assert raised.value.one_line() == ERRORS["syntax_error.v"][1]
+
+
+def test_a_clean_design_leaves_the_block_with_its_warnings(always_in_background: None) -> None:
+    pending = start_design(["generate.v"])
+    with pending as graph:
+        pass
+    assert graph.diagnostics == build_design(["generate.v"]).diagnostics
+    # an analysis error of its own stays what it is
+    with pytest.raises(RuntimeError), start_design(["generate.v"]):
+        raise RuntimeError("not the design's fault")
+
+
+def test_a_big_broken_netlist_through_check_is_one_line_and_no_output(tmp_path: Path) -> None:
+    # Over the size threshold, so the real command takes the forked path; the error is on the
+    # last gate, which slang parses after extraction could already have read everything else.
+    gates = 250_000
+    lines = ["// invented test netlist: a long buffer chain with one missing comma at its end",
+             "module chain (a, y);", "  input a;", "  output y;", f"  wire [{gates}:0] w;", "  buf g0 (w[0], a);"]
+    lines += [f"  not g{i} (w[{i}], w[{i - 1}]);" for i in range(1, gates)]
+    lines += [f"  buf last (y w[{gates - 1}]);", "endmodule", ""]
+    netlist = tmp_path / "chain.v"
+    netlist.write_text("\n".join(lines))
+    assert netlist.stat().st_size >= slang_diagnostics.BACKGROUND_FROM_BYTES
+    out = tmp_path / "report.json"
+    result = subprocess.run(
+        [sys.executable, "-m", "linter", "check", str(netlist), "--family", "LVCMOS33", "--rail", "VCC=3.3",
+         "--format", "json", "-o", str(out)],
+        cwd=tmp_path, capture_output=True, text=True, check=False,
+    )
+    # `  buf last (y w[...]);` reads to slang as one terminal; it reports the gate at its "("
+    # (column 12) in its own words (pyslang 12.1.0, observed)
+    message = "instance of 'buf' requires at least one input and one output connection"
+    assert (result.returncode, result.stderr) == (2, f"{netlist}:{gates + 6}:12: error: {message}\n")
+    assert not out.exists()
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["chain.v"]

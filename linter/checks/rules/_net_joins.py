@@ -24,6 +24,7 @@ from linter.electrical.family import LogicFamily
 from linter.electrical.margins import dc_load
 from linter.electrical.rail import Rail
 from linter.errors import SourceLocation
+from linter.stable_order import stable_order
 
 # Drivers whose level the electrical rules judge. Constant ties and pulls are no outputs; a pin
 # of unknown direction may not drive at all.
@@ -43,8 +44,8 @@ def pairs_on_same_net(left_net: np.ndarray, right_net: np.ndarray, net_count: in
     Both arguments hold non-negative net ids. The result lists pairs by net, then by left index,
     then by right index (so it is deterministic); no Python loop runs per net or per pair.
     """
-    left_sorted = np.argsort(left_net, kind="stable")
-    right_order = np.argsort(right_net, kind="stable")
+    left_sorted = stable_order(left_net, net_count)
+    right_order = stable_order(right_net, net_count)
     right_count = np.bincount(right_net, minlength=net_count)
     right_start = np.concatenate(([0], np.cumsum(right_count)[:-1])).astype(np.int64)
     repeats = right_count[left_net[left_sorted]]

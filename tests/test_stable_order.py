@@ -1,0 +1,23 @@
+"""The counting-sort ordering equals numpy's stable argsort (the reference), ties included."""
+
+from __future__ import annotations
+
+import numpy as np
+from hypothesis import given
+from hypothesis import strategies as st
+
+from linter.stable_order import stable_order
+
+
+@given(st.lists(st.integers(min_value=0, max_value=40), max_size=300), st.integers(min_value=0, max_value=5))
+def test_equals_numpys_stable_argsort(keys: list[int], spare: int) -> None:
+    array = np.asarray(keys, np.int32)
+    bound = (max(keys) + 1 if keys else 0) + spare  # keys need not reach the bound
+    assert stable_order(array, max(bound, 1)).tolist() == np.argsort(array, kind="stable").tolist()
+
+
+def test_a_million_keys_with_many_ties() -> None:
+    keys = np.random.default_rng(7).integers(0, 1000, 1_000_000).astype(np.int64)
+    order = stable_order(keys, 1000)
+    assert order.dtype == np.int64
+    assert np.array_equal(order, np.argsort(keys, kind="stable"))
