@@ -148,8 +148,13 @@ class PatternTable(Generic[Value]):
         if self._any_glob is None:
             maybe = [name in exact for name in names]
         else:
+            # a glob matches only names that start with its literal part: a cheaper first screen
+            starts = tuple({pattern.literal_prefix for pattern, _, _ in self._globs})
             screen = self._any_glob.match
-            maybe = [name in exact or screen(name) is not None for name in names]
+            if "" in starts:
+                maybe = [name in exact or screen(name) is not None for name in names]
+            else:
+                maybe = [name in exact or (name.startswith(starts) and screen(name) is not None) for name in names]
         found: list[Sequence[Value]] = [()] * len(names)
         positions = [position for position, hit in enumerate(maybe) if hit]
         if self._bit_names or any(names[position] in exact for position in positions):

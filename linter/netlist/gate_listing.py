@@ -55,6 +55,7 @@ _NET_WORDS = {b"wire", b"tri"}
 _PORT_WORDS = {b"input", b"output", b"inout"}
 _NET_KEYWORD = re.compile(rb"wire(?![\w$])\s*")
 _HEADER = re.compile(rb"\s*module\s+" + IDENTIFIER_PATTERN + rb"\s*\(([^()#;]*)\)\s*;\s*\Z")
+_COMMA = re.compile(rb"(\s*,\s*)")
 _RANGE = re.compile(rb"\[\s*(-?\d+)\s*:\s*(-?\d+)\s*\]\s*")
 _MORE_INSTANCES = re.compile(rb",\s*(" + IDENTIFIER_PATTERN + rb")?\s*(\()([^()]*)\)\s*")
 # Text that makes a body mean more than it says: macros and directives, strings, delays,
@@ -281,11 +282,12 @@ def _net_declaration(front: bytes, offset: int) -> NetDeclaration | None:
         msb, lsb = int(declared_range.group(1)), int(declared_range.group(2))
         offset += declared_range.end()
         front = front[declared_range.end() :]
-    parts = front.split(b",")
-    tokens = [part.strip() for part in parts]
+    lead = len(front) - len(front.lstrip())
+    # names and the commas (with their space) between them, alternately
+    pieces = _COMMA.split(front.strip())
+    tokens = pieces[::2]
     if not all(map(_IDENTIFIER.fullmatch, tokens)):
         return None  # an array, an attribute, a type keyword: more than a name
-    # each part starts one comma after the previous one ends; its token after any leading space
-    starts = accumulate((len(part) + 1 for part in parts[:-1]), initial=offset)
-    offsets = array("q", [begin + len(part) - len(part.lstrip()) for begin, part in zip(starts, parts)])
+    # each name starts where the pieces before it end
+    offsets = array("q", list(accumulate(map(len, pieces), initial=offset + lead))[::2])
     return NetDeclaration(tokens, offsets, msb, lsb)
