@@ -4,8 +4,8 @@ Run from the repository root: ``python benchmarks/bench_check.py`` (``--quick`` 
 cells only). For each generated flat netlist it writes a design file with three rails and a family
 assignment by cell-name globs (invented benchmark data: about 10 % of the cells on a 1.8 V rail,
 10 % on a 5 V rail with TTL-compatible inputs, the rest LVCMOS33), so that every rule has real
-crossings to judge, then measures, each as its own process (wall time and peak memory from
-``os.wait4``):
+crossings to judge, then measures, each as its own process (wall time, and peak memory of the
+process tree as ``measure.py`` takes it):
 
 * ``check``: ``python -m linter check DESIGN.yaml --format json -o OUT`` (all rules);
 * ``inspect``: ``python -m linter inspect FILE --format json`` (front end only);
