@@ -18,6 +18,16 @@ from linter.errors import SourceLocation
 from linter.netlist.source_texts import SourceTexts
 
 
+def location_of(source_manager: pyslang.SourceManager, loc: pyslang.SourceLocation) -> SourceLocation:
+    """Our location for a slang location; an empty location yields ``<unknown>``."""
+    if loc is None or loc.buffer.id == 0:
+        return SourceLocation("<unknown>")
+    name = source_manager.getFileName(loc)
+    if not name:  # slang's "no location" (an unknown --top) has a buffer id but names no file
+        return SourceLocation("<unknown>")
+    return SourceLocation(name, source_manager.getLineNumber(loc), source_manager.getColumnNumber(loc))
+
+
 class LocationTable:
     """Ids for slang locations; id 0 means unknown. Call :meth:`resolve` once extraction is done."""
 
@@ -70,13 +80,7 @@ class LocationTable:
 
     def location(self, loc: pyslang.SourceLocation | None) -> SourceLocation:
         """An immediate location, for messages made during extraction."""
-        if loc is None or loc.buffer.id == 0:
-            return SourceLocation("<unknown>")
-        sm = self._source_manager
-        name = sm.getFileName(loc)
-        if not name:  # slang's "no location" sentinel: a buffer id, but no file behind it
-            return SourceLocation("<unknown>")
-        return SourceLocation(name, sm.getLineNumber(loc), sm.getColumnNumber(loc))
+        return location_of(self._source_manager, loc)
 
     def resolve(self) -> None:
         """Compute ``file``, ``line`` and ``column`` arrays indexed by location id."""

@@ -19,22 +19,13 @@ import pyslang
 from pyslang import ast
 
 from linter.errors import InputError, SourceLocation
+from linter.netlist.locations import location_of
 
 # Warnings that say nothing about connectivity or electrical behaviour of a netlist.
 _QUIET_WARNINGS = {"newline-eof", "unused-def", "udp-coverage"}
 
 # Below this much Verilog the pass takes milliseconds, less than a fork costs.
 BACKGROUND_FROM_BYTES = 4_000_000
-
-
-def location_of(source_manager: pyslang.SourceManager, loc: pyslang.SourceLocation) -> SourceLocation:
-    """Our location for a slang location; an empty location yields ``<unknown>``."""
-    if loc is None or loc.buffer.id == 0:
-        return SourceLocation("<unknown>")
-    name = source_manager.getFileName(loc)
-    if not name:  # slang's "no location" (an unknown --top) has a buffer id but names no file
-        return SourceLocation("<unknown>")
-    return SourceLocation(name, source_manager.getLineNumber(loc), source_manager.getColumnNumber(loc))
 
 
 @dataclass(frozen=True)

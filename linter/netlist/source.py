@@ -36,10 +36,6 @@ class ElaboratedSource:
     top: ast.InstanceSymbol
     diagnostics: DiagnosticsJob
 
-    @property
-    def warnings(self) -> list[str]:
-        return self.diagnostics.warnings()
-
 
 def _check_readable(path: Path) -> None:
     """Reject files slang would misread: missing, folders, empty, binary or not UTF-8."""

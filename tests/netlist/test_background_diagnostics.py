@@ -64,7 +64,7 @@ def test_warnings_are_the_same_from_the_child(always_in_background: None) -> Non
     forked = elaborate(["generate.v"], background=True)
     in_process = elaborate(["generate.v"], background=False)
     assert forked.diagnostics.forked and not in_process.diagnostics.forked
-    assert forked.warnings == in_process.warnings
+    assert forked.diagnostics.warnings() == in_process.diagnostics.warnings()
     assert build_design(["generate.v"]).diagnostics == [
         "generate.v:21:13: warning: implicit net 'imp' created [implicit-net]"
     ]
