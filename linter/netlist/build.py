@@ -9,6 +9,7 @@ from pathlib import Path
 
 from linter.netlist.flatten import Flattener
 from linter.netlist.graph import DesignGraph
+from linter.netlist.listing_prefetch import start_prefetch
 from linter.netlist.locations import LocationTable
 from linter.netlist.progress import Progress
 from linter.netlist.source import ElaboratedSource, elaborate
@@ -94,16 +95,23 @@ def _start(files: Sequence[str | Path], top: str | None, include_dirs: Sequence[
            defines: Mapping[str, str] | Sequence[str], leaf_modules: Collection[str],
            progress: Progress | None) -> PendingDesign:
     phase = progress.phase if progress is not None else (lambda name, total=None: nullcontext(None))
-    with phase("parsing and elaborating"):
-        source = elaborate(files, top, include_dirs, defines, background=None)
+    # on big files a child reads the gate listings while slang parses
+    prefetch = start_prefetch(files)
     try:
-        with phase("flattening") as advance:
-            flattener = Flattener(LocationTable(source.source_manager), frozenset(leaf_modules), advance)
-            graph = flattener.run(source.top)
-    except Exception:
-        source.diagnostics.warnings()  # an error slang found explains the failure better than ours
-        raise
-    except BaseException:  # an interrupt: stop the child too
-        source.diagnostics.abandon()
-        raise
+        with phase("parsing and elaborating"):
+            source = elaborate(files, top, include_dirs, defines, background=None)
+        try:
+            with phase("flattening") as advance:
+                flattener = Flattener(LocationTable(source.source_manager), frozenset(leaf_modules), advance,
+                                      prefetch=prefetch)
+                graph = flattener.run(source.top)
+        except Exception:
+            source.diagnostics.warnings()  # an error slang found explains the failure better than ours
+            raise
+        except BaseException:  # an interrupt: stop the child too
+            source.diagnostics.abandon()
+            raise
+    finally:
+        if prefetch is not None:
+            prefetch.abandon()  # a child still running was not needed (or the run is failing)
     return PendingDesign(graph, source)

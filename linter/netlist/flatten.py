@@ -26,6 +26,7 @@ from linter.netlist.graph import (
     TopPort,
 )
 from linter.netlist.listed_body import GateListings
+from linter.netlist.listing_prefetch import ListingPrefetch
 from linter.netlist.locations import LocationTable
 from linter.netlist.source_facts import SourceFacts
 from linter.netlist.template import Template, TemplateBuilder, verilog_name
@@ -74,7 +75,8 @@ class _Instance:
 
 class Flattener:
     def __init__(self, locations: LocationTable, leaf_modules: frozenset[str],
-                 progress: Callable[[int], None] | None = None, read_listings: bool = True) -> None:
+                 progress: Callable[[int], None] | None = None, read_listings: bool = True,
+                 prefetch: ListingPrefetch | None = None) -> None:
         self.locations = locations
         self.leaf_modules = leaf_modules
         self.progress = progress
@@ -86,7 +88,7 @@ class Flattener:
         self.ties: list[tuple[int, int, str]] = []  # (raw bit, constant, module instance written in)
         self.facts = SourceFacts.scan(locations.texts)
         # plain gate-list bodies are read from their text: same result, a fraction of the time
-        self.listings = GateListings(locations.texts) if read_listings else None
+        self.listings = GateListings(locations.texts, prefetch) if read_listings else None
 
     def _template(self, body: ast.Symbol) -> tuple[Template, _Arrays]:
         entry = self.templates.get(body)

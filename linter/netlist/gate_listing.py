@@ -30,8 +30,10 @@ from __future__ import annotations
 import re
 from array import array
 from dataclasses import dataclass, field
-from itertools import accumulate
+from itertools import accumulate, repeat
 from operator import itemgetter
+
+import numpy as np
 
 IDENTIFIER_PATTERN = rb"(?:[A-Za-z_][A-Za-z0-9_$]*|\\\S+)"  # a simple or an escaped name
 _IDENTIFIER = re.compile(IDENTIFIER_PATTERN)
@@ -56,6 +58,7 @@ _PORT_WORDS = {b"input", b"output", b"inout"}
 _NET_KEYWORD = re.compile(rb"wire(?![\w$])\s*")
 _HEADER = re.compile(rb"\s*module\s+" + IDENTIFIER_PATTERN + rb"\s*\(([^()#;]*)\)\s*;\s*\Z")
 _COMMA = re.compile(rb"(\s*,\s*)")
+_NAME_LIST = re.compile(IDENTIFIER_PATTERN + rb"(?:\s*,\s*" + IDENTIFIER_PATTERN + rb")*")
 _RANGE = re.compile(rb"\[\s*(-?\d+)\s*:\s*(-?\d+)\s*\]\s*")
 _MORE_INSTANCES = re.compile(rb",\s*(" + IDENTIFIER_PATTERN + rb")?\s*(\()([^()]*)\)\s*")
 # Text that makes a body mean more than it says: macros and directives, strings, delays,
@@ -69,10 +72,14 @@ _COMMENT_OR_ESCAPED = re.compile(rb"\\\S+|//[^\n]*|/\*.*?\*/", re.DOTALL)
 class NetDeclaration:
     """One ``wire`` statement: the names as written (escaped ones with their backslash), in order."""
 
-    tokens: list[bytes]
-    offsets: array  # of each name, as the tokens
+    text: bytes  # the names joined by "," (no name of the form holds one): one object, not many
+    offsets: array  # of each name, in order
     msb: int | None  # None: one bit each, no range
     lsb: int | None
+
+    @property
+    def tokens(self) -> list[bytes]:
+        return self.text.split(b",")
 
 
 @dataclass
@@ -81,6 +88,21 @@ class PortDeclaration:
 
     direction: str  # "input", "output" or "inout"
     names: NetDeclaration
+
+
+@dataclass
+class WireTerms:
+    """Each gate term that names a whole one-bit wire, as the bit that wire gets when the declared
+    wires are numbered in order (vectors taking one bit per element) from 0.
+
+    Every other term (a port, a constant, a bit of a vector) is -1 in ``bits``, and listed with its
+    position in ``other_positions`` and ``other_terms`` for the caller to resolve one by one.
+    Numbering like this needs nothing but the listing, so it can be done ahead, in another process.
+    """
+
+    bits: np.ndarray  # int32, one per term, in the order of GateListing.terms
+    other_positions: np.ndarray  # int64
+    other_terms: list[bytes]
 
 
 @dataclass
@@ -98,6 +120,34 @@ class GateListing:
     escaped_names: bool = False  # whether any name is written escaped (with a backslash)
     # the port declarations; None if any is more than directions, names and a numeric range
     ports: list[PortDeclaration] | None = field(default_factory=list)
+    # each term's wire, once asked for (perhaps by another process: see listing_prefetch)
+    known_wire_terms: WireTerms | None = None
+
+    def __getstate__(self) -> dict:
+        # sent between processes as a few columns: a million small objects pickle slowly
+        state = dict(self.__dict__)
+        nets = state.pop("nets")
+        state["nets_packed"] = (
+            [net.text for net in nets],
+            array("q", b"".join(net.offsets.tobytes() for net in nets)),
+            [(net.msb, net.lsb) for net in nets],
+        )
+        state["gate_names"] = b",".join(name or b"" for name in self.gate_names)  # no name holds a ","
+        return state
+
+    def __setstate__(self, state: dict) -> None:
+        texts, offsets, ranges = state.pop("nets_packed")
+        ends = list(accumulate(text.count(b",") + 1 for text in texts))
+        state["nets"] = [NetDeclaration(text, offsets[begin:end], msb, lsb)
+                         for text, begin, end, (msb, lsb) in zip(texts, [0, *ends], ends, ranges)]
+        names = state["gate_names"].split(b",") if len(state["gate_offsets"]) else []
+        state["gate_names"] = names if b"" not in names else [name or None for name in names]
+        self.__dict__.update(state)
+
+    def wire_terms(self) -> WireTerms:
+        if self.known_wire_terms is None:
+            self.known_wire_terms = _wire_terms(self)
+        return self.known_wire_terms
 
     @property
     def terms(self) -> list[bytes]:
@@ -284,10 +334,41 @@ def _net_declaration(front: bytes, offset: int) -> NetDeclaration | None:
         front = front[declared_range.end() :]
     lead = len(front) - len(front.lstrip())
     # names and the commas (with their space) between them, alternately
-    pieces = _COMMA.split(front.strip())
-    tokens = pieces[::2]
-    if not all(map(_IDENTIFIER.fullmatch, tokens)):
+    names = front.strip()
+    if _NAME_LIST.fullmatch(names) is None:
         return None  # an array, an attribute, a type keyword: more than a name
+    pieces = _COMMA.split(names)
+    tokens = pieces[::2]
     # each name starts where the pieces before it end
     offsets = array("q", list(accumulate(map(len, pieces), initial=offset + lead))[::2])
-    return NetDeclaration(tokens, offsets, msb, lsb)
+    return NetDeclaration(b",".join(tokens), offsets, msb, lsb)
+
+
+def _wire_terms(listing: GateListing) -> WireTerms:
+    wire_bit: dict[bytes, int] = {}
+    next_bit = 0
+    for declaration in listing.nets:
+        tokens = declaration.tokens
+        if declaration.msb is None:
+            wire_bit.update(zip(tokens, range(next_bit, next_bit + len(tokens))))
+            next_bit += len(tokens)
+        else:
+            next_bit += (abs(declaration.msb - declaration.lsb) + 1) * len(tokens)
+    chunks: list[np.ndarray] = []
+    other_positions: list[np.ndarray] = []
+    other_terms: list[bytes] = []
+    position = 0
+    for text in listing.term_text:
+        terms = text.split(b",")
+        bits = np.fromiter(map(wire_bit.get, terms, repeat(-1, len(terms))), np.int32, len(terms))
+        others = np.flatnonzero(bits < 0)
+        if others.size:
+            other_terms.extend(map(terms.__getitem__, others.tolist()))
+            other_positions.append(others + position)
+        chunks.append(bits)
+        position += len(terms)
+    return WireTerms(
+        np.concatenate(chunks) if chunks else np.zeros(0, np.int32),
+        np.concatenate(other_positions) if other_positions else np.zeros(0, np.int64),
+        other_terms,
+    )

@@ -10,8 +10,8 @@ from __future__ import annotations
 
 import re
 from array import array
-from itertools import accumulate, chain
 
+import numpy as np
 import pyslang
 from pyslang import syntax
 
@@ -35,6 +35,7 @@ from linter.netlist.graph import (
     CellClass,
     PinDirection,
 )
+from linter.netlist.listing_prefetch import NOT_PREFETCHED, ListingPrefetch
 from linter.netlist.source_texts import SourceTexts
 from linter.netlist.template_model import PortInfo, verilog_name
 
@@ -56,19 +57,15 @@ def _shape(declaration: NetDeclaration) -> TypeShape:
     return TypeShape(upper - lower + 1, lower, upper, msb >= lsb, upper - lower + 1, True)
 
 
-def _directions(kind: str, count: int) -> list[int]:
-    if kind in _N_INPUT:
-        return [PinDirection.OUT] + [PinDirection.IN] * (count - 1)
-    return [PinDirection.OUT] * (count - 1) + [PinDirection.IN]
-
-
 class GateListings:
     """The gate listing of each module declaration, read once however many bodies share its text."""
 
-    def __init__(self, texts: SourceTexts) -> None:
+    def __init__(self, texts: SourceTexts, prefetch: ListingPrefetch | None = None) -> None:
         self.texts = texts
+        self.prefetch = prefetch  # listings read ahead, by a child process
         self._kept: dict[tuple[int, int], GateListing | None] = {}  # (buffer, offset) -> listing
         self.bodies_listed = 0  # bodies served a listing
+        self.bodies_prefetched = 0  # bodies whose text the child read
 
     def of(self, declaration: syntax.SyntaxNode | None) -> tuple[GateListing, pyslang.SourceLocation] | None:
         """The listing of a module declaration and where its items start, or None if it has none."""
@@ -84,7 +81,13 @@ class GateListings:
         if key in self._kept:
             listing = self._kept[key]
         else:
-            listing = read_gate_listing(self.texts.text(start.buffer), start.offset, end.offset)
+            text = self.texts.text(start.buffer)
+            listing = NOT_PREFETCHED if self.prefetch is None else self.prefetch.listing(
+                start.buffer.id, text, start.offset, end.offset)
+            if listing is NOT_PREFETCHED:
+                listing = read_gate_listing(text, start.offset, end.offset)
+            else:
+                self.bodies_prefetched += 1
             # kept for the other bodies of the declaration (parameter values) unless it is big:
             # a million gates' terms are hundreds of MB, and such a body is rarely specialised
             if listing is None or len(listing.gate_kinds) < _KEEP_GATES:
@@ -140,16 +143,57 @@ class ListedGateCells:
 
     def _listed_body(self, listing: GateListing, sample: pyslang.SourceLocation, ports_from_text: bool) -> bool:
         """Fill the template's nets and cells from the body's gate listing; False if it cannot be."""
-        # the vectors and ports by name, for terms that select a bit
+        if not listing.escaped_names:
+            listed = self._listed_by_wire_terms(listing, ports_from_text)
+            if listed is not None:
+                self._keep_listed(listing, sample, *listed)
+                return True
+        listed = self._listed_by_token(listing, ports_from_text)
+        if listed is None:
+            return False
+        self._keep_listed(listing, sample, *listed)
+        return True
+
+    def _port_lookups(self) -> tuple[dict[str, SymbolBits], dict[bytes, int]]:
+        """The vectors and ports by name, for terms that select a bit, and the bit of a term as
+        written, for the one-bit names and the constants."""
         bits_of_name: dict[str, SymbolBits] = dict(self.port_bits_by_name)
-        # a term as written -> its bit, for the one-bit names and constants most terms are
         bit_of_token: dict[bytes, int] = dict(_CONSTANT_TERMS)
         for name, info in bits_of_name.items():
             if info.width == 1:
                 bit_of_token[verilog_name(name).encode("utf-8")] = info.base
+        return bits_of_name, bit_of_token
+
+    def _listed_by_wire_terms(self, listing: GateListing,
+                              ports_from_text: bool) -> tuple[list[str], array, np.ndarray] | None:
+        """Nets and pins with the wires' terms numbered by the listing itself (see ``WireTerms``):
+        only the terms that name anything else are looked up here. None if the numbering does not
+        apply: a wire redeclares a port, or a term needs another spelling of a wire."""
+        bits_of_name, bit_of_token = self._port_lookups()
+        first_wire_bit = len(self.template.net_names)
+        nets = self._listed_nets(listing, bits_of_name, None, ports_from_text)
+        if nets is None:
+            return None
+        wire_terms = listing.wire_terms()
+        pin_net = wire_terms.bits + np.int32(first_wire_bit)
+        others = []
+        for term in wire_terms.other_terms:
+            bit = bit_of_token.get(term)
+            if bit is None:
+                bit = _term_bit(term, bits_of_name, bit_of_token)
+                if bit is None:
+                    return None
+            others.append(bit)
+        pin_net[wire_terms.other_positions] = others
+        return (*nets, pin_net)
+
+    def _listed_by_token(self, listing: GateListing,
+                         ports_from_text: bool) -> tuple[list[str], array, np.ndarray] | None:
+        """Nets and pins with every term looked up by its text."""
+        bits_of_name, bit_of_token = self._port_lookups()
         nets = self._listed_nets(listing, bits_of_name, bit_of_token, ports_from_text)
         if nets is None:
-            return False
+            return None
         pin_net = array("i")
         for text in listing.term_text:
             terms = text.split(b",")
@@ -159,18 +203,18 @@ class ListedGateCells:
                     if bits[position] is None:
                         bits[position] = _term_bit(term, bits_of_name, bit_of_token)
                         if bits[position] is None:
-                            return False
+                            return None
             pin_net.extend(bits)
-        self._keep_listed(listing, sample, nets, pin_net)
-        return True
+        return (*nets, np.frombuffer(pin_net, np.int32))
 
     def _listed_nets(self, listing: GateListing, bits_of_name: dict[str, SymbolBits],
-                     bit_of_token: dict[bytes, int], ports_from_text: bool) -> tuple[list[str], array] | None:
+                     bit_of_token: dict[bytes, int] | None, ports_from_text: bool) -> tuple[list[str], array] | None:
         """Bits for the declared wires, after those of the ports: their names and source offsets.
 
-        A one-bit wire goes into ``bit_of_token`` only, a vector into ``bits_of_name`` as well.
-        A wire that redeclares a port keeps the port's bits; with the ports read from the text
-        that is left to slang (None), which knows which of the two declarations the net is.
+        A one-bit wire goes into ``bit_of_token`` only (with ``bit_of_token`` None, nowhere: the
+        listing's wire terms number them), a vector into ``bits_of_name`` as well.
+        A wire that redeclares a port keeps the port's bits; with the ports read from the text, or
+        with the wires numbered by the listing, that is left to another reading (None).
         """
         net_names: list[str] = []
         net_offsets = array("q")
@@ -178,9 +222,10 @@ class ListedGateCells:
         port_names = set(self.port_bits_by_name)
         for declaration in listing.nets:
             if declaration.msb is None and not listing.escaped_names:
-                names = b" ".join(declaration.tokens).decode("ascii").split(" ")
+                names = declaration.text.decode("ascii").split(",")
                 if port_names.isdisjoint(names):  # the commonest statement, taken whole
-                    bit_of_token.update(zip(declaration.tokens, range(next_bit, next_bit + len(names))))
+                    if bit_of_token is not None:
+                        bit_of_token.update(zip(declaration.tokens, range(next_bit, next_bit + len(names))))
                     net_names.extend(names)
                     net_offsets.extend(declaration.offsets)
                     next_bit += len(names)
@@ -189,11 +234,12 @@ class ListedGateCells:
             for token, offset in zip(declaration.tokens, declaration.offsets):
                 name = identifier_name(token)
                 if name in port_names:  # a port's own declaration: the port already has its bits
-                    if ports_from_text:
+                    if ports_from_text or bit_of_token is None:
                         return None
                     continue
                 if shape is _ONE_BIT:
-                    bit_of_token[token] = next_bit
+                    if bit_of_token is not None:
+                        bit_of_token[token] = next_bit
                     net_names.append(verilog_name(name) if token[:1] == b"\\" else name)
                     net_offsets.append(offset)
                 else:
@@ -204,9 +250,8 @@ class ListedGateCells:
         return net_names, net_offsets
 
     def _keep_listed(self, listing: GateListing, sample: pyslang.SourceLocation,
-                     nets: tuple[list[str], array], pin_net: array) -> None:
+                     net_names: list[str], net_offsets: array, pin_net: np.ndarray) -> None:
         t = self.template
-        net_names, net_offsets = nets
         first = self.locations.intern_offsets(sample, net_offsets)
         t.net_names.extend(net_names)
         t.net_location.extend(range(first, first + len(net_offsets)))
@@ -222,19 +267,32 @@ class ListedGateCells:
         elif count:  # simple names only: spelt as written
             t.cell_names.extend(b" ".join(listing.gate_names).decode("ascii").split(" "))
         t.cell_kinds.extend(listing.gate_kinds)
-        t.cell_class.extend([CellClass.GATE] * count)
-        t.cell_arc_mode.extend([ArcMode.FULL] * count)
-        t.cell_location.extend(range(first, first + count))
-        ends = accumulate(listing.term_counts, initial=len(t.pin_net))
-        next(ends)  # the first value is where these pins start, which the list already ends with
-        t.cell_pin_start.extend(ends)
-        t.pin_net.extend(pin_net)
-        shapes = list(zip(listing.gate_kinds, listing.term_counts))
-        directions = {shape: _directions(*shape) for shape in set(shapes)}
-        names = {(kind, terms): _TERMINALS[:terms] if terms <= 16 else tuple(f"t{i}" for i in range(terms))
-                 for kind, terms in directions}
-        t.pin_direction.extend(chain.from_iterable(map(directions.__getitem__, shapes)))
-        t.pin_names.extend(chain.from_iterable(map(names.__getitem__, shapes)))
+        t.cell_class.frombytes(bytes([CellClass.GATE]) * count)
+        t.cell_arc_mode.frombytes(bytes([ArcMode.FULL]) * count)
+        t.cell_location.frombytes(np.arange(first, first + count, dtype=np.int32).tobytes())
+        counts = np.frombuffer(listing.term_counts, np.int32)
+        ends = np.cumsum(counts, dtype=np.int64)
+        t.cell_pin_start.frombytes((ends + len(t.pin_net)).astype(np.int32).tobytes())
+        t.pin_net.frombytes(pin_net.astype(np.int32, copy=False).tobytes())
+        directions, positions = _pin_layout(listing.gate_kinds, counts, ends)
+        t.pin_direction.frombytes(directions.tobytes())
+        names = [*_TERMINALS, *(f"t{i}" for i in range(len(_TERMINALS), int(counts.max(initial=0))))]
+        t.pin_names.extend(map(names.__getitem__, positions.tolist()))
+
+
+def _pin_layout(kinds: list[str], counts: np.ndarray, ends: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Each pin's direction (int8) and position within its gate, for gates with ``counts`` terms.
+
+    An n-input gate drives its first terminal; a buf or not drives all but its last.
+    """
+    starts = ends - counts
+    n_input = np.fromiter(map(_N_INPUT.__contains__, kinds), bool, len(kinds))
+    directions = np.full(int(ends[-1]) if ends.size else 0, PinDirection.IN, np.int8)
+    directions[np.repeat(~n_input, counts)] = PinDirection.OUT
+    directions[(ends - 1)[~n_input]] = PinDirection.IN
+    directions[starts[n_input]] = PinDirection.OUT
+    positions = np.arange(directions.size) - np.repeat(starts, counts)
+    return directions, positions
 
 
 def _term_bit(raw: bytes, bits_of_name: dict[str, SymbolBits], bit_of_token: dict[bytes, int]) -> int | None:

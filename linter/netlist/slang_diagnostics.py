@@ -10,15 +10,13 @@ as if the pass had run first. Where fork is missing, or the child fails, the pas
 
 from __future__ import annotations
 
-import os
-import pickle
-import signal
 from dataclasses import dataclass, field
 
 import pyslang
 from pyslang import ast
 
 from linter.errors import InputError, SourceLocation
+from linter.forked_call import ForkedCall
 from linter.netlist.locations import location_of
 
 # Warnings that say nothing about connectivity or electrical behaviour of a netlist.
@@ -74,50 +72,21 @@ class DiagnosticsJob:
         self._compilation = compilation
         self._source_manager = source_manager
         self._outcome: DiagnosticOutcome | None = None
-        self._child: tuple[int, int] | None = None  # (pid, read end of its pipe)
-        if in_background and hasattr(os, "fork"):
-            self._child = self._fork()
-        self.forked = self._child is not None
-        if self._child is None:
+        self._child: ForkedCall | None = None
+        if in_background:
+            self._child = ForkedCall(lambda: collect(self._compilation, self._source_manager))
+        self.forked = self._child is not None and self._child.started
+        if not self.forked:
+            self._child = None
             self._outcome = collect(compilation, source_manager)
-
-    def _fork(self) -> tuple[int, int] | None:
-        read_end, write_end = os.pipe()
-        try:
-            pid = os.fork()
-        except OSError:
-            os.close(read_end)
-            os.close(write_end)
-            return None
-        if pid == 0:  # the child: never returns into the caller's code
-            try:
-                os.close(read_end)
-                try:
-                    payload = pickle.dumps(collect(self._compilation, self._source_manager))
-                except BaseException:  # noqa: BLE001 - an empty answer makes the parent redo the pass
-                    payload = b""
-                with os.fdopen(write_end, "wb") as pipe:
-                    pipe.write(payload)
-            finally:
-                os._exit(0)
-        os.close(write_end)
-        return pid, read_end
 
     def outcome(self) -> DiagnosticOutcome:
         """Wait for the pass; a child that died or answered nothing is replaced by the pass in-process."""
         if self._outcome is None:
             assert self._child is not None
-            pid, read_end = self._child
-            self._child = None
-            with os.fdopen(read_end, "rb") as pipe:
-                payload = pipe.read()
-            os.waitpid(pid, 0)
-            try:
-                self._outcome = pickle.loads(payload) if payload else None
-            except (pickle.UnpicklingError, EOFError):
-                self._outcome = None
-            if not isinstance(self._outcome, DiagnosticOutcome):
-                self._outcome = collect(self._compilation, self._source_manager)
+            answer, self._child = self._child.result(), None
+            self._outcome = answer if isinstance(answer, DiagnosticOutcome) else collect(
+                self._compilation, self._source_manager)
         return self._outcome
 
     def warnings(self) -> list[str]:
@@ -129,11 +98,5 @@ class DiagnosticsJob:
     def abandon(self) -> None:
         """Stop a child still running (the caller is failing for another reason) and reap it."""
         if self._child is not None:
-            pid, read_end = self._child
+            self._child.abandon()
             self._child = None
-            try:
-                os.kill(pid, signal.SIGKILL)
-            except ProcessLookupError:
-                pass
-            os.close(read_end)
-            os.waitpid(pid, 0)

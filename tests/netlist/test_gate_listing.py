@@ -8,7 +8,6 @@ from __future__ import annotations
 
 from pathlib import Path
 
-import numpy as np
 import pytest
 
 from linter.netlist.flatten import Flattener
@@ -17,6 +16,7 @@ from linter.netlist.graph import DesignGraph
 from linter.netlist.locations import LocationTable
 from linter.netlist.source import elaborate
 from linter.netlist.template import TemplateBuilder
+from tests.netlist.graph_compare import graph_differences
 
 FIXTURE = Path(__file__).parent / "fixtures" / "gate_listing.v"
 
@@ -29,23 +29,11 @@ def _graph(path: Path, read_listings: bool) -> tuple[DesignGraph, bool]:
     return graph, used
 
 
-def _differences(a: DesignGraph, b: DesignGraph) -> list[str]:
-    different = []
-    for name, value in vars(b).items():
-        other = getattr(a, name)
-        if isinstance(value, np.ndarray):
-            if value.shape != other.shape or not (value == other).all():
-                different.append(name)
-        elif value != other:
-            different.append(name)
-    return different
-
-
 def test_fixture_is_read_from_text_and_equals_the_walk() -> None:
     listed, used = _graph(FIXTURE, True)
     walked, _ = _graph(FIXTURE, False)
     assert used
-    assert _differences(listed, walked) == []
+    assert graph_differences(listed, walked) == []
     assert listed.cell_names == [
         "gate_listing.g1", "gate_listing.g2", "gate_listing.not@10:7", "gate_listing.bufx",
         "gate_listing.g3", "gate_listing.g4", "gate_listing.g5", "gate_listing.xor@14:30", "gate_listing.g6",
@@ -56,13 +44,13 @@ def test_iscas85_is_read_from_text_and_equals_the_walk(iscas85_netlist: Path) ->
     listed, used = _graph(iscas85_netlist, True)
     walked, _ = _graph(iscas85_netlist, False)
     assert used  # every ISCAS-85 file is a plain gate list
-    assert _differences(listed, walked) == []
+    assert graph_differences(listed, walked) == []
 
 
 def test_other_dataset_files_equal_the_walk(dataset_netlist: Path) -> None:
     listed, _ = _graph(dataset_netlist, True)
     walked, _ = _graph(dataset_netlist, False)
-    assert _differences(listed, walked) == []
+    assert graph_differences(listed, walked) == []
 
 
 @pytest.mark.parametrize("items", [
@@ -98,7 +86,7 @@ def test_a_plain_listing_never_asks_slang_for_its_port_list(monkeypatch: pytest.
     monkeypatch.setattr(TemplateBuilder, "_ports", refuse)
     listed, used = _graph(FIXTURE, True)
     assert used
-    assert _differences(listed, walked) == []
+    assert graph_differences(listed, walked) == []
 
 
 # Headers and port declarations the text reader leaves to slang's port list; the result must
@@ -116,7 +104,7 @@ def test_other_headers_take_slangs_ports_and_equal_the_walk(tmp_path: Path, modu
     path.write_text(module)
     listed, _ = _graph(path, True)
     walked, _ = _graph(path, False)
-    assert _differences(listed, walked) == []
+    assert graph_differences(listed, walked) == []
 
 
 def test_a_body_longer_than_one_slice_equals_the_walk(tmp_path: Path) -> None:
@@ -131,5 +119,5 @@ def test_a_body_longer_than_one_slice_equals_the_walk(tmp_path: Path) -> None:
     listed, used = _graph(path, True)
     walked, _ = _graph(path, False)
     assert used
-    assert _differences(listed, walked) == []
+    assert graph_differences(listed, walked) == []
     assert listed.cell_count == gates + 2
