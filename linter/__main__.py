@@ -1,7 +1,5 @@
 """Entry point for ``python -m linter``."""
 
-import sys
+from linter.cli import console_main
 
-from linter.cli import main
-
-sys.exit(main())
+console_main()

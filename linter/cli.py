@@ -4,9 +4,11 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import os
 import pkgutil
 import sys
 from collections.abc import Sequence
+from typing import NoReturn
 
 from linter import __version__, commands
 from linter.errors import EXIT_BAD_INPUT, LevelcrossError
@@ -55,3 +57,24 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_BAD_INPUT
     except BrokenPipeError:
         return EXIT_BAD_INPUT
+
+
+def console_main() -> NoReturn:
+    """The installed command and ``python -m linter``: :func:`main`, then the process ends at once.
+
+    Tearing the interpreter down frees every object one by one: a quarter of a second after a
+    million-cell check, for memory nobody uses again. Output is flushed first, and every file
+    was written atomically and closed, so nothing is lost by skipping it.
+    """
+    try:
+        code: int = main()
+    except SystemExit as stop:  # --help, --version, usage errors
+        if isinstance(stop.code, str):
+            sys.stderr.write(stop.code + "\n")
+        code = stop.code if isinstance(stop.code, int) else (0 if stop.code is None else 1)
+    try:
+        sys.stdout.flush()
+        sys.stderr.flush()
+    except BrokenPipeError:
+        code = EXIT_BAD_INPUT
+    os._exit(code)

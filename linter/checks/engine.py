@@ -10,8 +10,14 @@ from linter.checks.context import CheckContext
 from linter.checks.finding import Finding, Severity, Site
 from linter.checks.registry import Rule, all_rules
 from linter.errors import InputError, SourceLocation, UsageError
+from linter.forked_call import ForkedCall
 
 WAIVER_RULE = "waiver-matches-nothing"
+# Below this many pins the rules take less than a fork costs.
+PARALLEL_RULES_FROM_PINS = 1_000_000
+# The rules run aside on a big design: about half the rules' time at a million cells (measured:
+# the loop search 0.8 s and the level-margin table 0.8 s, against 1.0 s for all the others).
+_RULES_ASIDE = frozenset({"cycle-through-logic", "high-level-margin", "low-level-margin"})
 
 
 @dataclass
@@ -35,15 +41,37 @@ def run_checks(annotation: Annotation, only: Iterable[str] | None = None,
     for rule_id in sorted(set(overrides) - known):
         raise UsageError(f"unknown rule '{rule_id}' in a severity override")
     context = CheckContext(annotation)
-    raw: list[Finding] = []
-    for rule in rules:
-        if rule.id in selected and rule.id != WAIVER_RULE:
-            raw.extend(rule.run(context))
+    chosen = [rule for rule in rules if rule.id in selected and rule.id != WAIVER_RULE]
+    found = _run_rules(context, chosen)
+    raw = [finding for rule in chosen for finding in found[rule.id]]  # registry order, however run
     active, waived, used = _apply_waivers(annotation, raw)
     if WAIVER_RULE in selected:
         active.extend(_unused_waivers(annotation, used))
     active = [f.with_severity(overrides[f.rule]) if f.rule in overrides else f for f in active]
     return CheckResult(sorted(active, key=Finding.sort_key), sorted(waived, key=Finding.sort_key), rules)
+
+
+def _run_rules(context: CheckContext, chosen: list[Rule]) -> dict[str, list[Finding]]:
+    """Each chosen rule's findings. On a big design the rules of ``_RULES_ASIDE`` run in a forked
+    child while the parent runs the others: the second core is idle by then. A child that fails
+    leaves its rules to the parent, so the findings never depend on how they were run."""
+    def run(group: list[Rule]) -> dict[str, list[Finding]]:
+        return {rule.id: list(rule.run(context)) for rule in group}
+
+    aside = [rule for rule in chosen if rule.id in _RULES_ASIDE]
+    if context.graph.pin_net.size < PARALLEL_RULES_FROM_PINS or not aside or len(aside) == len(chosen):
+        return run(chosen)
+    child = ForkedCall(lambda: run(aside))
+    if not child.started:
+        return run(chosen)
+    try:
+        found = run([rule for rule in chosen if rule not in aside])
+    except BaseException:
+        child.abandon()
+        raise
+    answer = child.result()
+    found.update(answer if isinstance(answer, dict) else run(aside))
+    return found
 
 
 def _apply_waivers(annotation: Annotation, findings: list[Finding]) -> tuple[list[Finding], list[Finding], set[int]]:
