@@ -9,7 +9,6 @@ row keeps its entries in input order. A test holds it equal to numpy's stable ar
 from __future__ import annotations
 
 import numpy as np
-from scipy.sparse import csr_matrix
 
 
 def stable_order(keys: np.ndarray, key_count: int) -> np.ndarray:
@@ -17,5 +16,7 @@ def stable_order(keys: np.ndarray, key_count: int) -> np.ndarray:
     count = int(keys.shape[0])
     if count == 0:
         return np.zeros(0, np.int64)
+    from scipy.sparse import csr_matrix  # here: see linter.netlist.flatten._merge
+
     rows = csr_matrix((np.ones(count, np.int8), (keys, np.arange(count))), shape=(key_count, count))
     return rows.indices.astype(np.int64, copy=False)

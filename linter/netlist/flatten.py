@@ -14,8 +14,6 @@ from dataclasses import dataclass
 
 import numpy as np
 from pyslang import ast
-from scipy.sparse import coo_matrix
-from scipy.sparse.csgraph import connected_components
 
 from linter.netlist.graph import (
     CONSTANT_NAMES,
@@ -137,6 +135,11 @@ class Flattener:
         b = np.concatenate(pieces_b)
         if n == 0:
             return np.zeros(0, np.int32), np.zeros(0, np.int64)
+        # imported here, not at the top: scipy takes half a second to import, and on a big design
+        # that half second is better spent after the parse has started slang's diagnostics child
+        from scipy.sparse import coo_matrix
+        from scipy.sparse.csgraph import connected_components
+
         matrix = coo_matrix((np.ones(a.size, np.int8), (a, b)), shape=(n, n))
         _, labels = connected_components(matrix, directed=False)
         depth = np.repeat(

@@ -30,10 +30,12 @@ from __future__ import annotations
 import re
 from array import array
 from dataclasses import dataclass, field
-from itertools import accumulate, repeat
+from itertools import accumulate
 from operator import itemgetter
 
 import numpy as np
+
+from linter.netlist.name_rows import NameColumn, last_equal
 
 IDENTIFIER_PATTERN = rb"(?:[A-Za-z_][A-Za-z0-9_$]*|\\\S+)"  # a simple or an escaped name
 _IDENTIFIER = re.compile(IDENTIFIER_PATTERN)
@@ -345,30 +347,15 @@ def _net_declaration(front: bytes, offset: int) -> NetDeclaration | None:
 
 
 def _wire_terms(listing: GateListing) -> WireTerms:
-    wire_bit: dict[bytes, int] = {}
-    next_bit = 0
-    for declaration in listing.nets:
-        tokens = declaration.tokens
-        if declaration.msb is None:
-            wire_bit.update(zip(tokens, range(next_bit, next_bit + len(tokens))))
-            next_bit += len(tokens)
-        else:
-            next_bit += (abs(declaration.msb - declaration.lsb) + 1) * len(tokens)
-    chunks: list[np.ndarray] = []
-    other_positions: list[np.ndarray] = []
-    other_terms: list[bytes] = []
-    position = 0
-    for text in listing.term_text:
-        terms = text.split(b",")
-        bits = np.fromiter(map(wire_bit.get, terms, repeat(-1, len(terms))), np.int32, len(terms))
-        others = np.flatnonzero(bits < 0)
-        if others.size:
-            other_terms.extend(map(terms.__getitem__, others.tolist()))
-            other_positions.append(others + position)
-        chunks.append(bits)
-        position += len(terms)
-    return WireTerms(
-        np.concatenate(chunks) if chunks else np.zeros(0, np.int32),
-        np.concatenate(other_positions) if other_positions else np.zeros(0, np.int64),
-        other_terms,
-    )
+    counts = np.array([net.text.count(b",") + 1 for net in listing.nets], np.int64)
+    one_bit = np.array([net.msb is None for net in listing.nets], bool)
+    widths = np.array([1 if net.msb is None else abs(net.msb - net.lsb) + 1 for net in listing.nets], np.int64)
+    # every declared name's first bit, in declaration order; then those of the one-bit wires
+    first_bits = np.cumsum(np.repeat(widths, counts)) - np.repeat(widths, counts)
+    wire_bits = first_bits[np.repeat(one_bit, counts)]
+    wires = NameColumn.of(b",".join(net.text for net in listing.nets if net.msb is None))
+    terms = NameColumn.of(b",".join(listing.term_text))
+    match = last_equal(wires, terms)
+    bits = np.where(match >= 0, wire_bits[np.maximum(match, 0)] if wire_bits.size else -1, -1).astype(np.int32)
+    other_positions = np.flatnonzero(bits < 0)
+    return WireTerms(bits, other_positions, [terms.name(position) for position in other_positions.tolist()])

@@ -15,7 +15,7 @@ import numpy as np
 import pytest
 from pyslang import syntax
 
-from linter.netlist import build_design, listing_prefetch
+from linter.netlist import build_design, listing_prefetch, name_rows
 from linter.netlist.flatten import Flattener
 from linter.netlist.gate_listing import read_gate_listing
 from linter.netlist.graph import DesignGraph
@@ -156,3 +156,17 @@ def test_the_front_end_with_the_child_equals_it_without(monkeypatch: pytest.Monk
     assert graph_differences(with_child, alone) == []
     with pytest.raises(ChildProcessError):
         os.waitpid(-1, os.WNOHANG)  # the child has been reaped
+
+
+def test_wire_terms_missed_by_a_hash_collision_fall_back_to_lookup_by_name(
+        tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    # invented listing with names longer than one 64-bit key, and a multiplier that makes every
+    # hash collide: the numbering misses, and the body is read by name instead, still exactly
+    path = tmp_path / "long_names.v"
+    path.write_text("module long_names (input_a, output_y);\n  input input_a;\n  output output_y;\n"
+                    "  wire stage_one_net, stage_two_net;\n  not g1 (stage_one_net, input_a);\n"
+                    "  not g2 (stage_two_net, stage_one_net);\n  buf g3 (output_y, stage_two_net);\nendmodule\n")
+    walked, _ = _graph(path, None, read_listings=False)
+    monkeypatch.setattr(name_rows, "_MULTIPLIER", np.uint64(0))
+    listed, _ = _graph(path, None)
+    assert graph_differences(listed, walked) == []
