@@ -143,12 +143,9 @@ class ListedGateCells:
 
     def _listed_body(self, listing: GateListing, sample: pyslang.SourceLocation, ports_from_text: bool) -> bool:
         """Fill the template's nets and cells from the body's gate listing; False if it cannot be."""
-        if not listing.escaped_names:
-            listed = self._listed_by_wire_terms(listing, ports_from_text)
-            if listed is not None:
-                self._keep_listed(listing, sample, *listed)
-                return True
-        listed = self._listed_by_token(listing, ports_from_text)
+        listed = None if listing.escaped_names else self._listed_by_wire_terms(listing, ports_from_text)
+        if listed is None:
+            listed = self._listed_by_token(listing, ports_from_text)
         if listed is None:
             return False
         self._keep_listed(listing, sample, *listed)
