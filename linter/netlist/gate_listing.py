@@ -351,11 +351,13 @@ def _wire_terms(listing: GateListing) -> WireTerms:
     one_bit = np.array([net.msb is None for net in listing.nets], bool)
     widths = np.array([1 if net.msb is None else abs(net.msb - net.lsb) + 1 for net in listing.nets], np.int64)
     # every declared name's first bit, in declaration order; then those of the one-bit wires
-    first_bits = np.cumsum(np.repeat(widths, counts)) - np.repeat(widths, counts)
-    wire_bits = first_bits[np.repeat(one_bit, counts)]
+    name_widths = np.repeat(widths, counts)
+    wire_bits = (np.cumsum(name_widths) - name_widths)[np.repeat(one_bit, counts)]
     wires = NameColumn.of(b",".join(net.text for net in listing.nets if net.msb is None))
     terms = NameColumn.of(b",".join(listing.term_text))
     match = last_equal(wires, terms)
-    bits = np.where(match >= 0, wire_bits[np.maximum(match, 0)] if wire_bits.size else -1, -1).astype(np.int32)
+    bits = np.full(len(terms), -1, np.int32)
+    hit = match >= 0
+    bits[hit] = wire_bits[match[hit]]
     other_positions = np.flatnonzero(bits < 0)
     return WireTerms(bits, other_positions, [terms.name(position) for position in other_positions.tolist()])
