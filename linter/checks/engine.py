@@ -53,7 +53,8 @@ def run_checks(annotation: Annotation, only: Iterable[str] | None = None,
 
 def _run_rules(context: CheckContext, chosen: list[Rule]) -> dict[str, list[Finding]]:
     """Each chosen rule's findings. On a big design the rules of ``_RULES_ASIDE`` run in a forked
-    child while the parent runs the others: the second core is idle by then. A child that fails
+    child while the parent runs the others; the second core is then free, or soon will be, once slang's
+    diagnostics child ends. A child that fails
     leaves its rules to the parent, so the findings never depend on how they were run."""
     def run(group: list[Rule]) -> dict[str, list[Finding]]:
         return {rule.id: list(rule.run(context)) for rule in group}
