@@ -20,3 +20,16 @@ def stable_order(keys: np.ndarray, key_count: int) -> np.ndarray:
 
     rows = csr_matrix((np.ones(count, np.int8), (keys, np.arange(count))), shape=(key_count, count))
     return rows.indices.astype(np.int64, copy=False)
+
+
+def dense_unique(keys: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """``np.unique(keys, return_inverse=True)`` for non-negative integer keys, without a sort
+    when their range is small against their count (the usual case: a few hundred distinct keys
+    among a million cells). The inverse is int64."""
+    if keys.size == 0 or int(keys.max()) >= 4 * keys.size + 1024:
+        distinct, inverse = np.unique(keys, return_inverse=True)
+        return distinct, inverse.reshape(-1).astype(np.int64, copy=False)
+    present = np.zeros(int(keys.max()) + 1, bool)
+    present[keys] = True
+    rank = np.cumsum(present) - 1
+    return np.flatnonzero(present).astype(keys.dtype, copy=False), rank[keys]

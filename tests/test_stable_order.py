@@ -1,4 +1,5 @@
-"""The counting-sort ordering equals numpy's stable argsort (the reference), ties included."""
+"""The counting-sort ordering equals numpy's stable argsort (the reference), ties included, and the
+linear-time unique equals ``np.unique`` (the reference)."""
 
 from __future__ import annotations
 
@@ -6,7 +7,7 @@ import numpy as np
 from hypothesis import given
 from hypothesis import strategies as st
 
-from linter.stable_order import stable_order
+from linter.stable_order import dense_unique, stable_order
 
 
 @given(st.lists(st.integers(min_value=0, max_value=40), max_size=300), st.integers(min_value=0, max_value=5))
@@ -21,3 +22,13 @@ def test_a_million_keys_with_many_ties() -> None:
     order = stable_order(keys, 1000)
     assert order.dtype == np.int64
     assert np.array_equal(order, np.argsort(keys, kind="stable"))
+
+
+@given(st.lists(st.integers(min_value=0, max_value=2**40), max_size=300), st.integers(min_value=1, max_value=2**40))
+def test_dense_unique_equals_numpys_unique(keys: list[int], scale: int) -> None:
+    # small ranges take the sort-free path, wide ones numpy's own: both must give np.unique's answer
+    for array in (np.asarray(keys, np.int64), np.asarray(keys, np.int64) % min(scale, 50)):
+        distinct, inverse = dense_unique(array)
+        expected_distinct, expected_inverse = np.unique(array, return_inverse=True)
+        assert distinct.tolist() == expected_distinct.tolist()
+        assert inverse.dtype == np.int64 and inverse.tolist() == expected_inverse.reshape(-1).tolist()

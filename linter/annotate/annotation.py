@@ -21,10 +21,10 @@ from linter.electrical.rail import Rail
 from linter.errors import SourceLocation
 from linter.netlist.graph import CellClass, DesignGraph, PinDirection
 
-_TRI_STATE_GATES = frozenset("bufif0 bufif1 notif0 notif1 nmos pmos rnmos rpmos cmos rcmos".split())
+_TRI_STATE_GATES = frozenset(["bufif0", "bufif1", "notif0", "notif1", "nmos", "pmos", "rnmos", "rpmos", "cmos", "rcmos"])
 # A bidirectional switch only joins two nets; counting its terminals as drivers would report a
 # short wherever one side is driven, so they are marked as passing (never floating, never fighting).
-_SWITCH_GATES = frozenset("tran rtran tranif0 tranif1 rtranif0 rtranif1".split())
+_SWITCH_GATES = frozenset(["tran", "rtran", "tranif0", "tranif1", "rtranif0", "rtranif1"])
 _PULL_GATES = {"pullup": True, "pulldown": False}
 _OUTPUT_KIND = {
     OutputKind.PUSH_PULL: DriveKind.PUSH_PULL,
@@ -93,14 +93,8 @@ def annotate(graph: DesignGraph, design: Design) -> Annotation:
     resolver = AssignmentResolver(design, graph.instance_modules)
     family_index = _Index(design.families)
     rail_index = _Index(design.rails)
-    cells = resolver.cells(graph.cell_names, graph.cell_kinds, graph.cell_module)
-    # the resolver shares one object per distinct assignment: number those, then index arrays
-    code_of: dict[int, int] = {}
-    distinct: list[CellAssignment] = []
-    for assignment in {id(a): a for a in cells}.values():
-        code_of[id(assignment)] = len(distinct)
-        distinct.append(assignment)
-    codes = np.fromiter(map(code_of.__getitem__, map(id, cells)), np.int32, len(cells))
+    table = resolver.cell_table(graph.cell_names, graph.cell_kinds, graph.cell_module)
+    codes, distinct = table.codes, table.distinct
     cell_family = np.asarray([family_index(a.family) for a in distinct], np.int16)[codes]
     cell_rail = np.asarray([rail_index(a.rail) for a in distinct], np.int16)[codes]
     with_part = np.asarray([a.part is not None for a in distinct], bool)
@@ -123,12 +117,11 @@ def annotate(graph: DesignGraph, design: Design) -> Annotation:
     kinds = graph.cell_kinds
     special_kinds = _TRI_STATE_GATES | _SWITCH_GATES | _PULL_GATES.keys()
     is_tie = graph.cell_class == CellClass.TIE
-    special = {c for c, kind in enumerate(kinds) if kind in special_kinds}
-    special.update(np.flatnonzero(is_tie).tolist())
-    special.update(np.flatnonzero(with_part[codes]).tolist())
-    for c in sorted(special):  # few cells need more than their cell's family and rail
+    special_code = with_part | np.asarray([kind in special_kinds for kind in table.kinds], bool)
+    special = np.flatnonzero(special_code[codes] | is_tie)
+    for c in special.tolist():  # few cells need more than their cell's family and rail
         kind = kinds[c]
-        assignment = cells[c]
+        assignment = distinct[codes[c]]
         pins = graph.pins_of(c)
         if kind in _TRI_STATE_GATES:
             for p in pins:

@@ -13,8 +13,10 @@ shares one cached result per (module path, kind). A million cells resolve in sec
 
 from __future__ import annotations
 
-from collections.abc import Iterable, Mapping, Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
+
+import numpy as np
 
 from linter.electrical.design_model import (
     AssignmentRule,
@@ -29,6 +31,7 @@ from linter.electrical.family import OutputKind
 from linter.electrical.name_patterns import PatternTable
 from linter.electrical.parts import Pin
 from linter.netlist.graph import PinDirection
+from linter.stable_order import dense_unique
 
 
 @dataclass(frozen=True)
@@ -45,6 +48,22 @@ class CellAssignment:
             if name == parameter:
                 return rail
         return None
+
+
+@dataclass(frozen=True)
+class CellTable:
+    """Every cell's settings, as a code per cell into the few distinct settings there are."""
+
+    codes: np.ndarray  # int32, one per cell: an index into distinct
+    distinct: list[CellAssignment]
+    kinds: list[str]  # the cell kind each distinct entry was resolved for
+
+
+def _codes(strings: Sequence[str]) -> tuple[np.ndarray, list[str]]:
+    """Each string's number in first-seen order, and the strings so numbered."""
+    distinct = list(dict.fromkeys(strings))
+    index = {text: number for number, text in enumerate(distinct)}
+    return np.fromiter(map(index.__getitem__, strings), np.int32, len(strings)), distinct
 
 
 @dataclass(frozen=True)
@@ -147,16 +166,30 @@ class AssignmentResolver:
         self, names: Sequence[str], kinds: Sequence[str], module_paths: Sequence[str]
     ) -> list[CellAssignment]:
         """:meth:`cell` for parallel lists, such as a design graph's cell_names, cell_kinds, cell_module."""
-        keys = list(zip(module_paths, kinds, strict=True))
-        if not self._cells:
-            rules_each: Iterable[Sequence[AssignmentRule]] = [()] * len(keys)
+        table = self.cell_table(names, kinds, module_paths)
+        return [table.distinct[code] for code in table.codes.tolist()]
+
+    def cell_table(self, names: Sequence[str], kinds: Sequence[str], module_paths: Sequence[str]) -> CellTable:
+        """:meth:`cells` as a code per cell into the few distinct settings: for a million cells."""
+        if not len(names) == len(kinds) == len(module_paths):
+            raise ValueError("names, kinds and module paths must be parallel lists")
+        module_code, module_list = _codes(module_paths)
+        kind_code, kind_list = _codes(kinds)
+        if self._cells:
+            group_of, groups = self._cells.matching_groups(names)
         else:
-            dotted = {path: path + "." for path in set(module_paths)}
-            rules_each = self._cells.matching_each([dotted[path] for path in module_paths], names)
-        # most cells match no rule: those resolve per (module path, kind), looked up, not recomputed
-        unmatched = {key: self._resolved(*key, ()) for key in set(keys)}
-        resolved = self._resolved
-        return [resolved(*key, rules) if rules else unmatched[key] for key, rules in zip(keys, rules_each)]
+            group_of, groups = np.zeros(len(names), np.int32), [[]]
+        # cells under one module path, of one kind, matched by the same rules resolve alike
+        key = (module_code.astype(np.int64) * len(kind_list) + kind_code) * len(groups) + group_of
+        distinct_keys, inverse = dense_unique(key)
+        distinct: list[CellAssignment] = []
+        distinct_kinds: list[str] = []
+        for combined in distinct_keys.tolist():
+            rest, group = divmod(combined, len(groups))
+            module, kind = divmod(rest, len(kind_list))
+            distinct.append(self._resolved(module_list[module], kind_list[kind], groups[group]))
+            distinct_kinds.append(kind_list[kind])
+        return CellTable(inverse.astype(np.int32), distinct, distinct_kinds)
 
     def _finish(self, layer: _Layer, kind: str) -> CellAssignment:
         part = layer.part if layer.part is not None else (kind if kind in self.design.parts else None)

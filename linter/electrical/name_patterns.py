@@ -18,12 +18,16 @@ from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
 from typing import Generic, TypeVar
 
+import numpy as np
+
 from linter.errors import InputError, SourceLocation
+from linter.stable_order import dense_unique
 
 _WILDCARDS = frozenset("*?[")
 _BIT_SUFFIX = re.compile(r"\[\d+\]\Z")
 
 Value = TypeVar("Value")
+_BLOCK = 1 << 16  # names turned into one numpy column at a time: bounded memory for long paths
 
 
 @dataclass(frozen=True)
@@ -138,40 +142,63 @@ class PatternTable(Generic[Value]):
             self._prefix_cache[prefix] = candidates
         return self._matching(name, candidates)
 
-    def matching_each(self, prefixes: Sequence[str], names: Sequence[str]) -> list[Sequence[Value]]:
-        """:meth:`matching_under` for parallel lists, a column at a time: for a million names.
+    def matching_groups(self, names: Sequence[str]) -> tuple[np.ndarray, list[list[Value]]]:
+        """:meth:`matching` for a column of names (a million cell paths): one group number per
+        name, and each group's values, most specific first. Group 0 is "nothing matches".
 
-        A name no pattern can match costs one regex call; the others one call per glob, and
-        names matched by the same globs share one answer. The answers are shared: read only.
+        Names matched by the same patterns share a group, so the caller resolves each group once.
+        A glob ``literal*`` is a prefix test, made on a block of names at a time with numpy;
+        any other glob runs its regex only on names that start with its literal part.
         """
-        exact = self._exact
-        if self._any_glob is None:
-            maybe = [name in exact for name in names]
+        group_of = np.zeros(len(names), np.int32)
+        groups: list[list[Value]] = [[]]
+        if not self._exact or not names:
+            return group_of, groups
+        if self._globs:
+            packed = np.concatenate([self._glob_bits(names[start:start + _BLOCK])
+                                     for start in range(0, len(names), _BLOCK)])
+            # refine a byte of glob flags at a time: the codes stay dense, whatever the glob count
+            codes = np.zeros(len(names), np.int64)
+            flag_bytes: list[tuple[int, ...]] = [()]
+            for column in packed.T:
+                distinct, codes = dense_unique(codes * 256 + column)
+                flag_bytes = [flag_bytes[key >> 8] + (key & 255,) for key in distinct.tolist()]
+            code_of_key = np.zeros(len(flag_bytes), np.int32)
+            for index, row in enumerate(flag_bytes):
+                flags = np.unpackbits(np.asarray(row, np.uint8))
+                values = [value for (_, _, value), hit in zip(self._globs, flags) if hit]
+                if values:
+                    code_of_key[index] = len(groups)
+                    groups.append(values)
+            group_of = code_of_key[codes]
+        # rare: a name spelt out as a pattern, or a bit of a bus, has its own precedence: by name
+        if self._bit_names:
+            by_name = [p for p, name in enumerate(names) if name in self._exact or _BIT_SUFFIX.search(name)]
         else:
-            # a glob matches only names that start with its literal part: a cheaper first screen
-            starts = tuple({pattern.literal_prefix for pattern, _, _ in self._globs})
-            screen = self._any_glob.match
-            if "" in starts:
-                maybe = [name in exact or screen(name) is not None for name in names]
-            else:
-                maybe = [name in exact or (name.startswith(starts) and screen(name) is not None) for name in names]
-        found: list[Sequence[Value]] = [()] * len(names)
-        positions = [position for position, hit in enumerate(maybe) if hit]
-        if self._bit_names or any(names[position] in exact for position in positions):
-            # rare: spelt-out names and bus names have their own precedence, so ask name by name
-            for position in positions:
-                found[position] = self.matching_under(prefixes[position], names[position])
-            return found
-        hit_names = [names[position] for position in positions]
-        # a glob that cannot match a name's prefix cannot match the name: trying it is only slower
-        flags_per_glob = [[regex.match(name) is not None for name in hit_names] for _, regex, _ in self._globs]
-        shared: dict[tuple[bool, ...], list[Value]] = {}
-        for position, flags in zip(positions, zip(*flags_per_glob)):
-            values = shared.get(flags)
-            if values is None:
-                values = shared[flags] = [value for (_, _, value), hit in zip(self._globs, flags) if hit]
-            found[position] = values
-        return found
+            spelt = self._exact.keys() & names
+            by_name = [p for p, name in enumerate(names) if name in spelt] if spelt else []
+        shared: dict[tuple[int, ...], int] = {}
+        for position in by_name:
+            values = self.matching(names[position])
+            key = tuple(map(id, values))
+            if key not in shared:
+                shared[key] = len(groups)
+                groups.append(values)
+            group_of[position] = shared[key]
+        return group_of, groups
+
+    def _glob_bits(self, names: Sequence[str]) -> np.ndarray:
+        """For each name, which globs match it: a row of bits packed into bytes (uint8)."""
+        column = np.array(names, dtype=str)
+        hits = np.zeros((len(self._globs), len(names)), bool)
+        for row, (pattern, regex, _) in enumerate(self._globs):
+            literal = pattern.literal_prefix
+            screen = np.strings.startswith(column, literal) if literal else np.ones(len(names), bool)
+            if pattern.text != literal + "*":  # more than a prefix test: confirm the screened names
+                positions = np.flatnonzero(screen)
+                screen[positions] = [regex.match(names[p]) is not None for p in positions]
+            hits[row] = screen
+        return np.packbits(hits, axis=0).T
 
     def _matching(self, name: str, candidates: Sequence[int] | None) -> list[Value]:
         found = list(self._exact.get(name, ()))

@@ -282,18 +282,34 @@ def test_pattern_table_precedence_and_prefix_screening() -> None:
 
 def test_column_matching_equals_name_by_name() -> None:
     # every name against the patterns of the precedence test above, plus names no pattern
-    # matches, names equal to a glob's text, and names outside the prefix they are said to be under
-    patterns = ["top.*", "top.u1.*", "top.u1.g?", "top.u1.?3", "top.u1.g3", "top.u[12].h*", "x*"]
+    # matches, names equal to a glob's text, a bracket set, and a glob with a wildcard inside
+    patterns = ["top.*", "top.u1.*", "top.u1.g?", "top.u1.?3", "top.u1.g3", "top.u[12].h*", "x*", "*3"]
     table = PatternTable((NamePattern(text), text) for text in patterns)
-    names = ["top.u1.g3", "top.u1.g4", "top.u1.h3", "top.u2.h7", "top.u1.*", "other", "xy", "top.u3.k"]
-    prefixes = ["top.u1.", "top.u1.", "top.u1.", "top.u2.", "top.u1.", "", "", "elsewhere."]
-    one_by_one = [table.matching_under(prefix, name) for prefix, name in zip(prefixes, names)]
-    assert [list(found) for found in table.matching_each(prefixes, names)] == one_by_one
-    # without the names that equal a pattern's text the column path (shared answers) is taken
-    plain = [(prefix, name) for prefix, name in zip(prefixes, names) if name not in patterns]
-    answers = table.matching_each([p for p, _ in plain], [n for _, n in plain])
-    assert [list(found) for found in answers] == [table.matching_under(p, n) for p, n in plain]
-    assert answers[0] == ["top.u1.g?", "top.u1.*", "top.*"]  # top.u1.g4, most specific first
+    names = ["top.u1.g3", "top.u1.g4", "top.u1.h3", "top.u2.h7", "top.u1.*", "other", "xy", "top.u3.k", "x3"]
+    group_of, groups = table.matching_groups(names)
+    assert [groups[group] for group in group_of.tolist()] == [table.matching(name) for name in names]
+    assert groups[group_of[1]] == ["top.u1.g?", "top.u1.*", "top.*"]  # top.u1.g4, most specific first
+    assert groups[group_of[5]] == [] and group_of[5] == 0  # "other": nothing matches
+    assert groups[group_of[4]][0] == "top.u1.*"  # spelt out exactly: the exact pattern first
+    # names matched by the same patterns share one group; group 0 is "nothing matches"
+    shared, shared_groups = table.matching_groups(["top.u1.k3", "top.u1.m3", "top.u1.k4"])
+    assert shared[0] == shared[1] != shared[2] and len(shared_groups) == 3 and shared_groups[0] == []
+    assert shared_groups[shared[0]] == ["top.u1.?3", "top.u1.*", "top.*", "*3"]
+    assert shared_groups[shared[2]] == ["top.u1.*", "top.*"]
+
+
+def test_column_matching_of_many_names_in_blocks() -> None:
+    """More names than one numpy block: the answer for each equals matching it alone."""
+    from linter.electrical import name_patterns
+
+    table = PatternTable([(NamePattern("chip.g1*"), "g1"), (NamePattern("chip.g2?"), "g2x"), (NamePattern("*7"), "7")])
+    names = [f"chip.g{i}" for i in range(name_patterns._BLOCK + 500)]
+    group_of, groups = table.matching_groups(names)
+    expected = [table.matching(name) for name in names]
+    assert [groups[g] for g in group_of.tolist()] == expected
+    assert len(groups) == len({tuple(values) for values in expected})
+    empty_of, empty_groups = table.matching_groups([])
+    assert empty_of.shape == (0,) and empty_groups == [[]]
 
 
 @pytest.mark.parametrize(
