@@ -88,12 +88,16 @@ def elaborate(
 
     if background is None:
         background = sum(path.stat().st_size for path in paths) >= BACKGROUND_FROM_BYTES
-    # forked before getRoot, so the child elaborates while the parent does too
+    if background:
+        # forked after getRoot: the child inherits the elaborated root instead of repeating it
+        # (0.6 s at a million gates), which leaves that much more of the second core free
+        root = compilation.getRoot()
     diagnostics = DiagnosticsJob(compilation, source_manager, background)
     try:
         if not background:
             diagnostics.warnings()
-        tops = list(compilation.getRoot().topInstances)
+            root = compilation.getRoot()
+        tops = list(root.topInstances)
         if len(tops) != 1:
             diagnostics.warnings()  # slang's own error, if it has one, says more than ours
         if not tops:
