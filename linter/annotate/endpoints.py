@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from enum import IntEnum
+from functools import cached_property
 
 import numpy as np
 
@@ -52,12 +53,13 @@ class Endpoints:
     rail_names: list[str]
     graph: DesignGraph
 
-    def __post_init__(self) -> None:
+    @cached_property
+    def _by_net(self) -> tuple[np.ndarray, np.ndarray]:
+        # built on first use: the rules ask for the endpoints of a net only to describe a finding
         connected = np.flatnonzero(self.net >= 0)
         order = connected[stable_order(self.net[connected], self.graph.net_count)]
         counts = np.bincount(self.net[connected], minlength=self.graph.net_count)
-        self._order = order
-        self._start = np.concatenate(([0], np.cumsum(counts))).astype(np.int64)
+        return order, np.concatenate(([0], np.cumsum(counts))).astype(np.int64)
 
     @property
     def count(self) -> int:
@@ -65,7 +67,8 @@ class Endpoints:
 
     def of_net(self, net: int) -> np.ndarray:
         """Endpoint indices on ``net``, pins first in cell order, then port bits."""
-        return self._order[self._start[net] : self._start[net + 1]]
+        order, start = self._by_net
+        return order[start[net] : start[net + 1]]
 
     def family_of(self, endpoint: int) -> str | None:
         index = int(self.family[endpoint])
