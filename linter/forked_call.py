@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import os
 import pickle
+import select
 import signal
 from collections.abc import Callable
 from typing import Any
@@ -38,6 +39,13 @@ class ForkedCall:
             return pickle.loads(payload) if payload else None
         except (pickle.UnpicklingError, EOFError, AttributeError, ImportError, TypeError, ValueError):
             return None
+
+    def busy(self) -> bool:
+        """Whether the child is still at work: started, not yet asked, and nothing on its pipe yet."""
+        if self._child is None:
+            return False
+        readable, _, _ = select.select([self._child[1]], [], [], 0)
+        return not readable
 
     def abandon(self) -> None:
         """Stop a child still running (its answer is no longer wanted) and reap it."""

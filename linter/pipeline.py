@@ -69,9 +69,11 @@ def check_design(design: Design, rules: Iterable[str] | None = None,
 
     # annotation and rules run while slang's diagnostics pass may still be running on a big
     # design; leaving the block waits for it, and its first error wins over any result
-    with start_netlist(design, progress) as graph:
+    pending = start_netlist(design, progress)
+    with pending as graph:
         annotation = annotate(graph, design)
-        result = check_annotation(annotation, rules, overrides)
+        # while slang's child holds the second core, a child for rules would only take turns with it
+        result = run_checks(annotation, rules, overrides, second_core_free=not pending.checking())
     return CheckReport(
         design=annotation.graph.top,
         design_file=None if str(design.path).startswith("<") else str(design.path),

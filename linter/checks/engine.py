@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 
@@ -30,7 +31,12 @@ class CheckResult:
 
 
 def run_checks(annotation: Annotation, only: Iterable[str] | None = None,
-               severity_overrides: Mapping[str, Severity] | None = None) -> CheckResult:
+               severity_overrides: Mapping[str, Severity] | None = None,
+               second_core_free: bool = True) -> CheckResult:
+    """Every selected rule over ``annotation``, waivers and overrides applied, findings sorted.
+
+    ``second_core_free`` False keeps the rules in this process whatever the design's size.
+    """
     rules = all_rules()
     known = {r.id for r in rules}
     selected = set(only) if only is not None else known
@@ -44,7 +50,7 @@ def run_checks(annotation: Annotation, only: Iterable[str] | None = None,
         raise UsageError(f"unknown rule '{rule_id}' in a severity override")
     context = CheckContext(annotation)
     chosen = [rule for rule in rules if rule.id in selected and rule.id != WAIVER_RULE]
-    found = _run_rules(context, chosen)
+    found = _run_rules(context, chosen, second_core_free and (os.cpu_count() or 1) > 1)
     raw = [finding for rule in chosen for finding in found[rule.id]]  # registry order, however run
     active, waived, used = _apply_waivers(annotation, raw)
     if WAIVER_RULE in selected:
@@ -53,16 +59,15 @@ def run_checks(annotation: Annotation, only: Iterable[str] | None = None,
     return CheckResult(sorted(active, key=Finding.sort_key), sorted(waived, key=Finding.sort_key), rules)
 
 
-def _run_rules(context: CheckContext, chosen: list[Rule]) -> dict[str, list[Finding]]:
-    """Each chosen rule's findings. On a big design the rules of ``_RULES_ASIDE`` run in a forked
-    child while the parent runs the others; the second core is then free, or soon will be, once slang's
-    diagnostics child ends. A child that fails
-    leaves its rules to the parent, so the findings never depend on how they were run."""
+def _run_rules(context: CheckContext, chosen: list[Rule], fork: bool) -> dict[str, list[Finding]]:
+    """Each chosen rule's findings. On a big design, with ``fork`` (a second core free), the rules
+    of ``_RULES_ASIDE`` run in a forked child while the parent runs the others. A child that
+    fails leaves its rules to the parent, so the findings never depend on how they were run."""
     def run(group: list[Rule]) -> dict[str, list[Finding]]:
         return {rule.id: list(rule.run(context)) for rule in group}
 
     aside = [rule for rule in chosen if rule.id in _RULES_ASIDE]
-    if context.graph.pin_net.size < PARALLEL_RULES_FROM_PINS or not aside or len(aside) == len(chosen):
+    if not fork or context.graph.pin_net.size < PARALLEL_RULES_FROM_PINS or not aside or len(aside) == len(chosen):
         return run(chosen)
     net_joins(context)  # the groundwork both sides read: computed once, before the fork
     child = ForkedCall(lambda: run(aside))

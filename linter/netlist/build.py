@@ -38,6 +38,10 @@ class PendingDesign:
             gc.collect()
         return self.graph
 
+    def checking(self) -> bool:
+        """Whether slang's diagnostics pass is still running in its child (and so holding a core)."""
+        return self._source is not None and self._source.diagnostics.busy()
+
     def abandon(self) -> None:
         if self._source is not None:
             self._source.diagnostics.abandon()

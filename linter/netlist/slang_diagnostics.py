@@ -95,6 +95,10 @@ class DiagnosticsJob:
         outcome.raise_error()
         return outcome.warnings
 
+    def busy(self) -> bool:
+        """Whether the pass is still running in its child (and so holding a core)."""
+        return self._child is not None and self._child.busy()
+
     def abandon(self) -> None:
         """Stop a child still running (the caller is failing for another reason) and reap it."""
         if self._child is not None:

@@ -72,3 +72,20 @@ def test_small_designs_run_every_rule_in_process(monkeypatch: pytest.MonkeyPatch
 
     monkeypatch.setattr(os, "fork", no_fork)
     assert _check().findings
+
+
+def test_no_child_while_slangs_child_holds_the_second_core(monkeypatch: pytest.MonkeyPatch) -> None:
+    from linter.netlist.build import PendingDesign
+    from linter.pipeline import check_design
+
+    reference = _check()  # in process: the board is far below the size that forks
+
+    def no_fork() -> int:
+        raise AssertionError("the rules must stay in process while slang's pass runs aside")
+
+    monkeypatch.setattr(engine, "PARALLEL_RULES_FROM_PINS", 0)
+    monkeypatch.setattr(os, "fork", no_fork)
+    said_busy = engine.run_checks(annotate_design(load_design(BOARD)), second_core_free=False)
+    assert _lists(said_busy) == _lists(reference)
+    monkeypatch.setattr(PendingDesign, "checking", lambda self: True)  # as on a big design
+    assert check_design(load_design(BOARD)).findings == reference.findings
