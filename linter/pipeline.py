@@ -8,15 +8,20 @@ from __future__ import annotations
 
 import argparse
 from collections.abc import Iterable, Mapping
+from typing import TYPE_CHECKING
 
-from linter.annotate import Annotation, annotate
-from linter.checks.engine import CheckResult, run_checks
-from linter.checks.finding import Severity
-from linter.electrical.design_model import Design
 from linter.errors import UsageError
-from linter.netlist import DesignGraph, PendingDesign, start_design
-from linter.netlist.progress import Progress
-from linter.report.model import CheckReport
+
+if TYPE_CHECKING:
+    from linter.annotate import Annotation
+    from linter.checks.engine import CheckResult
+    from linter.checks.finding import Severity
+    from linter.electrical.design_model import Design
+    from linter.netlist import DesignGraph, PendingDesign
+    from linter.report.model import CheckReport
+
+# The stages are imported where they run, not here: a command then reads its design file and
+# starts slang's parse before it loads the annotation, the rules and the reporters.
 
 
 def load_check_design(args: argparse.Namespace) -> Design:
@@ -38,6 +43,9 @@ def load_check_design(args: argparse.Namespace) -> Design:
 
 def start_netlist(design: Design, progress: bool = False) -> PendingDesign:
     """The design's netlist, while slang may still be checking it: see :class:`PendingDesign`."""
+    from linter.netlist import start_design
+    from linter.netlist.progress import Progress
+
     spec = design.netlist
     leaf_modules = [name for name in design.parts.parts]
     with Progress(enabled=progress) as bar:
@@ -51,12 +59,16 @@ def read_netlist(design: Design, progress: bool = False) -> DesignGraph:
 
 
 def annotate_design(design: Design, progress: bool = False) -> Annotation:
+    from linter.annotate import annotate
+
     with start_netlist(design, progress) as graph:
         return annotate(graph, design)
 
 
 def check_annotation(annotation: Annotation, rules: Iterable[str] | None = None,
                      overrides: Mapping[str, Severity] | None = None) -> CheckResult:
+    from linter.checks.engine import run_checks
+
     return run_checks(annotation, rules, overrides)
 
 
@@ -64,8 +76,11 @@ def check_design(design: Design, rules: Iterable[str] | None = None,
                  overrides: Mapping[str, Severity] | None = None, progress: bool = False) -> CheckReport:
     """The whole main job for one design: read, annotate, check, and package for the reporters."""
     from linter import __version__
+    from linter.annotate import annotate
+    from linter.checks.engine import run_checks
     from linter.checks.rules.family_unassigned import assignment_coverage
     from linter.cli import CAUTION
+    from linter.report.model import CheckReport
 
     # annotation and rules run while slang's diagnostics pass may still be running on a big
     # design; leaving the block waits for it, and its first error wins over any result

@@ -5,16 +5,7 @@ from __future__ import annotations
 import argparse
 import sys
 
-from rich.console import Console
-from rich.table import Table
-
-from linter.netlist import build_design
-from linter.netlist.connectivity import connectivity
-from linter.netlist.progress import Progress
-from linter.netlist.summary import summarise
-from linter.output import write_atomic
-from linter.report.jsonout import to_json
-
+# The front end and rich are imported when the command runs: every other command starts sooner.
 
 def add_netlist_arguments(parser: argparse.ArgumentParser) -> None:
     """The options every command reading Verilog shares."""
@@ -38,6 +29,13 @@ def register(subparsers: argparse._SubParsersAction) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    from linter.netlist import build_design
+    from linter.netlist.connectivity import connectivity
+    from linter.netlist.progress import Progress
+    from linter.netlist.summary import summarise
+    from linter.output import write_atomic
+    from linter.report.jsonout import to_json
+
     show_progress = args.format == "text" and args.output is None and sys.stderr.isatty()
     with Progress(enabled=show_progress) as progress:
         graph = build_design(args.files, args.top, args.include_dirs, args.defines, progress=progress)
@@ -53,6 +51,9 @@ def run(args: argparse.Namespace) -> int:
 
 
 def render_text(summary: dict) -> str:
+    from rich.console import Console
+    from rich.table import Table
+
     console = Console(width=100, force_terminal=False, color_system=None)
     with console.capture() as capture:
         table = Table(title=f"design {summary['top']}", show_header=True)

@@ -30,10 +30,10 @@ def register(subparsers: argparse._SubParsersAction) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from linter import __version__
+    from linter.checks.rules.family_unassigned import assignment_coverage
     from linter.cli import CAUTION
     from linter.electrical.design_file import load_design
     from linter.output import write_atomic
-    from linter.checks.rules.family_unassigned import assignment_coverage
     from linter.pipeline import annotate_design, check_annotation
     from linter.review.dot import render_dot
     from linter.review.figures import figure_files, render_figures

@@ -6,13 +6,14 @@ import gc
 from collections.abc import Collection, Mapping, Sequence
 from contextlib import nullcontext
 from pathlib import Path
+from typing import TYPE_CHECKING
 
-from linter.netlist.flatten import Flattener
 from linter.netlist.graph import DesignGraph
 from linter.netlist.listing_prefetch import start_prefetch
-from linter.netlist.locations import LocationTable
-from linter.netlist.progress import Progress
 from linter.netlist.source import ElaboratedSource, elaborate
+
+if TYPE_CHECKING:
+    from linter.netlist.progress import Progress
 
 
 class PendingDesign:
@@ -105,6 +106,11 @@ def _start(files: Sequence[str | Path], top: str | None, include_dirs: Sequence[
         with phase("parsing and elaborating"):
             source = elaborate(files, top, include_dirs, defines, background=None)
         try:
+            # imported after the parse: on a big design, slang's diagnostics child (forked at
+            # the parse's end) is the longest path, and these imports would only delay it
+            from linter.netlist.flatten import Flattener
+            from linter.netlist.locations import LocationTable
+
             with phase("flattening") as advance:
                 flattener = Flattener(LocationTable(source.source_manager), frozenset(leaf_modules), advance,
                                       prefetch=prefetch)

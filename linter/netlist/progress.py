@@ -5,10 +5,10 @@ from __future__ import annotations
 import sys
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
+from typing import TYPE_CHECKING
 
-from rich.console import Console
-from rich.progress import BarColumn, SpinnerColumn, TextColumn, TimeElapsedColumn
-from rich.progress import Progress as RichProgress
+if TYPE_CHECKING:
+    from rich.progress import Progress as RichProgress
 
 
 class Progress:
@@ -20,6 +20,16 @@ class Progress:
 
     def __enter__(self) -> Progress:
         if self.enabled:
+            # rich is imported only for a bar: a run without one starts its parse sooner
+            from rich.console import Console
+            from rich.progress import (
+                BarColumn,
+                SpinnerColumn,
+                TextColumn,
+                TimeElapsedColumn,
+            )
+            from rich.progress import Progress as RichProgress
+
             self._bar = RichProgress(
                 SpinnerColumn(), TextColumn("{task.description}"), BarColumn(),
                 TextColumn("{task.completed:,} cells"), TimeElapsedColumn(),
