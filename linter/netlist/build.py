@@ -104,7 +104,7 @@ def _start(files: Sequence[str | Path], top: str | None, include_dirs: Sequence[
     prefetch = start_prefetch(files)
     try:
         with phase("parsing and elaborating"):
-            source = elaborate(files, top, include_dirs, defines, background=None)
+            source = elaborate(files, top, include_dirs, defines, background=None, listings=prefetch)
         try:
             # imported after the parse: on a big design, slang's diagnostics child (forked at
             # the parse's end) is the longest path, and these imports would only delay it

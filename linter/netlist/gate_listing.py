@@ -35,10 +35,13 @@ from operator import itemgetter
 
 import numpy as np
 
+from linter.netlist.graph import PinDirection
 from linter.netlist.name_rows import NameColumn, last_equal
 
 IDENTIFIER_PATTERN = rb"(?:[A-Za-z_][A-Za-z0-9_$]*|\\\S+)"  # a simple or an escaped name
 _IDENTIFIER = re.compile(IDENTIFIER_PATTERN)
+# A gate term: (name, its numeric bit select) or (constant digit), with the space around it.
+TERM = re.compile(rb"\s*(?:(" + IDENTIFIER_PATTERN + rb")\s*(?:\[\s*(\d+)\s*\])?|1'[bB]([01xXzZ]))\s*\Z")
 # A statement in four pieces whose lengths add up to all of it but its ";": the keyword with the
 # space around it, the part before any "(", the "(" if there is one, and the rest. Consecutive
 # matches that add up to the whole body prove no text was skipped between them.
@@ -62,6 +65,7 @@ _PLAIN_NAME_LISTS = re.compile(_PLAIN_NAME_LIST + rb"(?:;" + _PLAIN_NAME_LIST + 
 _SEPARATOR = np.zeros(256, bool)
 _SEPARATOR[list(b" \t\r\n\f\v,;")] = True
 _GATE_WORDS = {word.encode("ascii"): word for word in ("and", "nand", "or", "nor", "xor", "xnor", "buf", "not")}
+_N_INPUT = {"and", "nand", "or", "nor", "xor", "xnor"}  # the rest (buf, not) have N outputs
 _NET_WORDS = {b"wire", b"tri"}
 _PORT_WORDS = {b"input", b"output", b"inout"}
 _NET_KEYWORD = re.compile(rb"wire(?![\w$])\s*")
@@ -126,6 +130,10 @@ class GateListing:
     gate_offsets: array = field(default_factory=lambda: array("q"))  # of the name, or of "(" if anonymous
     term_text: list[bytes] = field(default_factory=list)  # every gate's terms in turn, stripped, joined by ","
     term_counts: array = field(default_factory=lambda: array("i"))  # how many terms each gate has
+    # where each gate statement starts and ends (its ";" included): one statement may hold several
+    # gates; the text a slang pass may leave out once the gates are screened (linter.netlist.quiet_gates)
+    statement_starts: array = field(default_factory=lambda: array("q"))
+    statement_ends: array = field(default_factory=lambda: array("q"))
     escaped_names: bool = False  # whether any name is written escaped (with a backslash)
     # the port declarations; None if any is more than directions, names and a numeric range
     ports: list[PortDeclaration] | None = field(default_factory=list)
@@ -218,6 +226,21 @@ def read_port_header(text: bytes, start: int, end: int) -> NetDeclaration | None
     return _net_declaration(match.group(1), start + match.start(1))
 
 
+def pin_layout(kinds: list[str], counts: np.ndarray, ends: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Each pin's direction (int8) and position within its gate, for gates with ``counts`` terms.
+
+    An n-input gate drives its first terminal; a buf or not drives all but its last.
+    """
+    starts = ends - counts
+    n_input = np.fromiter(map(_N_INPUT.__contains__, kinds), bool, len(kinds))
+    directions = np.full(int(ends[-1]) if ends.size else 0, PinDirection.IN, np.int8)
+    directions[np.repeat(~n_input, counts)] = PinDirection.OUT
+    directions[(ends - 1)[~n_input]] = PinDirection.IN
+    directions[starts[n_input]] = PinDirection.OUT
+    positions = np.arange(directions.size) - np.repeat(starts, counts)
+    return directions, positions
+
+
 def _read_simple(items: bytes, start: int) -> GateListing | None:
     """The listing of a body whose gate statements hold one instance each, read column by column.
 
@@ -267,6 +290,9 @@ def _read_simple_slice(items: bytes, start: int, listing: GateListing) -> bool:
         statements = [statement for statement, word in zip(statements, gate_words) if word]
         gate_words = [word for word in gate_words if word]
         begins = np.delete(begins, declarations)
+        lengths = np.delete(lengths, declarations)
+    listing.statement_starts.frombytes(begins.tobytes())
+    listing.statement_ends.frombytes((begins + lengths).tobytes())
     listing.gate_kinds.extend(map(_GATE_WORDS.__getitem__, gate_words))
     names = list(map(_GATE_NAME, statements))
     listing.gate_names.extend(names if b"" not in names else [name or None for name in names])
@@ -323,6 +349,8 @@ def _read_general(items: bytes, start: int) -> GateListing | None:
             kind = _GATE_WORDS.get(word)
             if kind is None or not _add_gates(listing, term_lists, kind, front, rest, start + begin):
                 return None
+            listing.statement_starts.append(start + begin - len(head))
+            listing.statement_ends.append(start + position)
         elif word in _NET_WORDS:
             declaration = _net_declaration(front, start + begin)
             if declaration is None:

@@ -8,7 +8,6 @@ listing cannot be resolved the same way, nothing is kept and the caller walks th
 
 from __future__ import annotations
 
-import re
 from array import array
 
 import numpy as np
@@ -19,10 +18,11 @@ from linter.errors import SourceLocation
 from linter.netlist.bit_layout import TypeShape, bit_names
 from linter.netlist.expressions import SymbolBits
 from linter.netlist.gate_listing import (
-    IDENTIFIER_PATTERN,
+    TERM,
     GateListing,
     NetDeclaration,
     identifier_name,
+    pin_layout,
     read_gate_listing,
     read_port_header,
 )
@@ -39,14 +39,12 @@ from linter.netlist.listing_prefetch import NOT_PREFETCHED, ListingPrefetch
 from linter.netlist.source_texts import SourceTexts
 from linter.netlist.template_model import PortInfo, verilog_name
 
-_TERM = re.compile(rb"\s*(?:(" + IDENTIFIER_PATTERN + rb")\s*(?:\[\s*(\d+)\s*\])?|1'[bB]([01xXzZ]))\s*\Z")
 _CONSTANT_DIGIT = {b"0": CONST0, b"1": CONST1, b"x": CONSTX, b"X": CONSTX, b"z": CONSTZ, b"Z": CONSTZ}
 _CONSTANT_TERMS = {b"1'" + base + digit: bit for digit, bit in _CONSTANT_DIGIT.items() for base in (b"b", b"B")}
 _ONE_BIT = TypeShape(1, 0, 0, True, 1, False)
 _KEEP_GATES = 100_000
 _PORT_DIRECTION = {"input": PinDirection.IN, "output": PinDirection.OUT, "inout": PinDirection.INOUT}
 _TERMINALS = tuple(f"t{position}" for position in range(16))
-_N_INPUT = {"and", "nand", "or", "nor", "xor", "xnor"}  # the rest (buf, not) have N outputs
 
 
 def _shape(declaration: NetDeclaration) -> TypeShape:
@@ -69,14 +67,10 @@ class GateListings:
 
     def of(self, declaration: syntax.SyntaxNode | None) -> tuple[GateListing, pyslang.SourceLocation] | None:
         """The listing of a module declaration and where its items start, or None if it has none."""
-        if declaration is None or declaration.kind != syntax.SyntaxKind.ModuleDeclaration:
+        span = body_span(declaration, self.texts.source_manager)
+        if span is None:
             return None
-        start, end = declaration.header.sourceRange.end, declaration.endmodule.location
-        sm = self.texts.source_manager
-        if start.buffer.id != end.buffer.id or start.buffer.id == 0:
-            return None
-        if not sm.isFileLoc(start) or sm.isMacroLoc(start) or sm.isMacroLoc(end):
-            return None
+        start, end = span
         key = (start.buffer.id, start.offset)
         if key in self._kept:
             listing = self._kept[key]
@@ -96,6 +90,20 @@ class GateListings:
             return None
         self.bodies_listed += 1
         return listing, start
+
+
+def body_span(declaration: syntax.SyntaxNode | None,
+              source_manager: pyslang.SourceManager) -> tuple[pyslang.SourceLocation, pyslang.SourceLocation] | None:
+    """Where a module declaration's items start and end, if they are plain text of one file
+    (no macro expansion): the span a gate listing reads."""
+    if declaration is None or declaration.kind != syntax.SyntaxKind.ModuleDeclaration:
+        return None
+    start, end = declaration.header.sourceRange.end, declaration.endmodule.location
+    if start.buffer.id != end.buffer.id or start.buffer.id == 0:
+        return None
+    if not source_manager.isFileLoc(start) or source_manager.isMacroLoc(start) or source_manager.isMacroLoc(end):
+        return None
+    return start, end
 
 
 class ListedGateCells:
@@ -271,30 +279,15 @@ class ListedGateCells:
         ends = np.cumsum(counts, dtype=np.int64)
         t.cell_pin_start.frombytes((ends + len(t.pin_net)).astype(np.int32).tobytes())
         t.pin_net.frombytes(pin_net.astype(np.int32, copy=False).tobytes())
-        directions, positions = _pin_layout(listing.gate_kinds, counts, ends)
+        directions, positions = pin_layout(listing.gate_kinds, counts, ends)
         t.pin_direction.frombytes(directions.tobytes())
         names = [*_TERMINALS, *(f"t{i}" for i in range(len(_TERMINALS), int(counts.max(initial=0))))]
         t.pin_names.extend(map(names.__getitem__, positions.tolist()))
 
 
-def _pin_layout(kinds: list[str], counts: np.ndarray, ends: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Each pin's direction (int8) and position within its gate, for gates with ``counts`` terms.
-
-    An n-input gate drives its first terminal; a buf or not drives all but its last.
-    """
-    starts = ends - counts
-    n_input = np.fromiter(map(_N_INPUT.__contains__, kinds), bool, len(kinds))
-    directions = np.full(int(ends[-1]) if ends.size else 0, PinDirection.IN, np.int8)
-    directions[np.repeat(~n_input, counts)] = PinDirection.OUT
-    directions[(ends - 1)[~n_input]] = PinDirection.IN
-    directions[starts[n_input]] = PinDirection.OUT
-    positions = np.arange(directions.size) - np.repeat(starts, counts)
-    return directions, positions
-
-
 def _term_bit(raw: bytes, bits_of_name: dict[str, SymbolBits], bit_of_token: dict[bytes, int]) -> int | None:
     """The one bit a gate terminal names, or None if it is anything the symbol walk would read otherwise."""
-    match = _TERM.match(raw)
+    match = TERM.match(raw)
     if match is None:
         return None
     if match.group(3) is not None:

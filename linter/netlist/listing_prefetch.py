@@ -52,11 +52,16 @@ class ListingPrefetch:
         self._found: dict[_Key, GateListing | None] | None = None
         self._text_keys: dict[int, tuple[int, int]] = {}  # buffer id -> (length, CRC-32)
 
-    def listing(self, buffer_id: int, text: bytes, start: int, end: int) -> GateListing | None | NotPrefetched:
-        """The listing of ``text[start:end]`` as the child read it, waiting for the child if need be."""
+    def wait(self) -> bool:
+        """Wait for the child; whether it read any listing."""
         if self._found is None:
             answer = self._call.result()
             self._found = answer if isinstance(answer, dict) else {}
+        return any(listing is not None for listing in self._found.values())
+
+    def listing(self, buffer_id: int, text: bytes, start: int, end: int) -> GateListing | None | NotPrefetched:
+        """The listing of ``text[start:end]`` as the child read it, waiting for the child if need be."""
+        self.wait()
         if not self._found:
             return NOT_PREFETCHED
         text_key = self._text_keys.get(buffer_id)

@@ -10,7 +10,9 @@ from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
+from functools import partial
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import pyslang
 from pyslang import ast, syntax
@@ -21,6 +23,9 @@ from linter.netlist.slang_diagnostics import (
     DiagnosticsJob,
 )
 from linter.textfile import read_text_input
+
+if TYPE_CHECKING:
+    from linter.netlist.listing_prefetch import ListingPrefetch
 
 
 @dataclass
@@ -48,27 +53,9 @@ def _defines(defines: Mapping[str, str] | Sequence[str]) -> list[str]:
     return list(defines)
 
 
-def elaborate(
-    files: Sequence[str | Path],
-    top: str | None = None,
-    include_dirs: Sequence[str | Path] = (),
-    defines: Mapping[str, str] | Sequence[str] = (),
-    background: bool | None = False,
-) -> ElaboratedSource:
-    """Parse ``files`` into one compilation and elaborate it with ``top`` (auto-detected if None).
-
-    With ``background`` False slang's full diagnostics pass runs before this returns and its first
-    error is raised here; True runs it in a child process; None chooses by the size of the files.
-    """
-    if not files:
-        raise InputError("no Verilog files given")
-    paths = [Path(f) for f in files]
-    for path in paths:
-        _check_readable(path)
-    for folder in include_dirs:
-        if not Path(folder).is_dir():
-            raise InputError(f"include folder '{folder}' does not exist")
-
+def slang_options(top: str | None = None, include_dirs: Sequence[str | Path] = (),
+                  defines: Mapping[str, str] | Sequence[str] = ()) -> pyslang.Bag:
+    """The options slang parses and elaborates with: defines, include folders, the top module."""
     bag = pyslang.Bag()
     preprocessor = pyslang.parsing.PreprocessorOptions()
     preprocessor.predefines = _defines(defines)
@@ -79,12 +66,40 @@ def elaborate(
     if top:
         options.topModules = {top}
     bag.compilationOptions = options
+    return bag
 
+
+def elaborate(
+    files: Sequence[str | Path],
+    top: str | None = None,
+    include_dirs: Sequence[str | Path] = (),
+    defines: Mapping[str, str] | Sequence[str] = (),
+    background: bool | None = False,
+    listings: ListingPrefetch | None = None,
+) -> ElaboratedSource:
+    """Parse ``files`` into one compilation and elaborate it with ``top`` (auto-detected if None).
+
+    With ``background`` False slang's full diagnostics pass runs before this returns and its first
+    error is raised here; True runs it in a child process; None chooses by the size of the files.
+    In a child, with gate listings read ahead (``listings``), the pass leaves out the gates it
+    can have nothing to say about (:mod:`linter.netlist.blanked_pass`).
+    """
+    if not files:
+        raise InputError("no Verilog files given")
+    paths = [Path(f) for f in files]
+    for path in paths:
+        _check_readable(path)
+    for folder in include_dirs:
+        if not Path(folder).is_dir():
+            raise InputError(f"include folder '{folder}' does not exist")
+
+    bag = slang_options(top, include_dirs, defines)
     source_manager = pyslang.SourceManager()
     source_manager.setDisableProximatePaths(True)
     compilation = ast.Compilation(bag)
-    for path in paths:
-        compilation.addSyntaxTree(syntax.SyntaxTree.fromFile(str(path), source_manager, bag))
+    trees = [syntax.SyntaxTree.fromFile(str(path), source_manager, bag) for path in paths]
+    for tree in trees:
+        compilation.addSyntaxTree(tree)
 
     if background is None:
         background = sum(path.stat().st_size for path in paths) >= BACKGROUND_FROM_BYTES
@@ -92,7 +107,12 @@ def elaborate(
         # forked after getRoot: the child inherits the elaborated root instead of repeating it
         # (0.6 s at a million gates), which leaves that much more of the second core free
         root = compilation.getRoot()
-    diagnostics = DiagnosticsJob(compilation, source_manager, background)
+    child_pass = None
+    if background and listings is not None and listings.wait():
+        from linter.netlist.blanked_pass import blanked_pass
+
+        child_pass = partial(blanked_pass, compilation, source_manager, bag, [str(p) for p in paths], trees, listings)
+    diagnostics = DiagnosticsJob(compilation, source_manager, background, child_pass)
     try:
         if not background:
             diagnostics.warnings()

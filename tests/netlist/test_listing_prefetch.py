@@ -19,7 +19,7 @@ from linter.netlist import build_design, listing_prefetch, name_rows
 from linter.netlist.flatten import Flattener
 from linter.netlist.gate_listing import read_gate_listing
 from linter.netlist.graph import DesignGraph
-from linter.netlist.listed_body import _pin_layout
+from linter.netlist.gate_listing import pin_layout
 from linter.netlist.listing_prefetch import (
     ListingPrefetch,
     body_spans,
@@ -103,7 +103,7 @@ def test_pin_layout_drives_the_first_terminal_of_n_input_gates_and_all_but_the_l
     # a 3-terminal nand, a buf with two outputs, a one-terminal buf, a 2-terminal xor (common practice:
     # the terminal order of the Verilog gate primitives, IEEE 1364 section 7)
     counts = np.array([3, 3, 1, 2], np.int32)
-    directions, positions = _pin_layout(["nand", "buf", "buf", "xor"], counts, np.cumsum(counts))
+    directions, positions = pin_layout(["nand", "buf", "buf", "xor"], counts, np.cumsum(counts))
     assert directions.tolist() == [1, 0, 0, 1, 1, 0, 0, 1, 0]
     assert positions.tolist() == [0, 1, 2, 0, 1, 2, 0, 0, 1]
 
