@@ -58,6 +58,7 @@ def _outcomes(paths: list[Path], top: str | None = None) -> tuple[object, object
     compilation, manager = elaborated.compilation, elaborated.source_manager
     trees = compilation.getSyntaxTrees()
     listings = ListingPrefetch(paths)
+    listings.wait()  # and so reaped, whatever the bodies
     bag = source.slang_options(top)
     blanked = 0
     for tree in trees:
