@@ -12,6 +12,7 @@ pass. Tests hold the outcome equal to the full pass on every dataset file and on
 
 from __future__ import annotations
 
+from collections import Counter
 from collections.abc import Sequence
 from pathlib import Path
 
@@ -47,9 +48,12 @@ def blanked_pass(compilation: ast.Compilation, source_manager: pyslang.SourceMan
     blanked_manager.setDisableProximatePaths(True)
     blanked = ast.Compilation(bag)
     file_names: dict[int, str] = {}
+    # a file read twice (given twice, or also included) is left whole: its text may stand in
+    # another scope the second time
+    readings = Counter(str(source_manager.getFullPath(buffer)) for buffer in source_manager.getAllBuffers())
     for path, tree in zip(paths, trees, strict=True):
         text, sample = blanked_text(tree, source_manager, listings)
-        if text is None:
+        if text is None or readings[str(source_manager.getFullPath(sample.buffer))] > 1:
             blanked.addSyntaxTree(syntax.SyntaxTree.fromFile(path, blanked_manager, bag))
             continue
         copy = syntax.SyntaxTree.fromText(text, blanked_manager, Path(path).name, path, bag)
