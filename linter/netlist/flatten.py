@@ -135,6 +135,8 @@ class Flattener:
         b = np.concatenate(pieces_b)
         if n == 0:
             return np.zeros(0, np.int32), np.zeros(0, np.int64)
+        if a.size == 0:  # nothing merges (a flat netlist): every bit is a net of its own
+            return np.arange(n, dtype=np.int32), np.arange(n, dtype=np.int64)
         # imported here, not at the top: scipy takes half a second to import, and on a big design
         # that half second is better spent after the parse has started slang's diagnostics child
         from scipy.sparse import coo_matrix
@@ -163,9 +165,10 @@ class Flattener:
     def _names(self, net_of_raw: np.ndarray, rep_raw: np.ndarray) -> tuple[list[str], dict[int, list[str]]]:
         names: list[str] = []
         for inst in self.instances:
-            prefix = inst.path + "."
-            names.extend(prefix + local for local in inst.template.net_names)
-        canonical = [names[r] for r in rep_raw.tolist()]
+            names.extend(map((inst.path + ".").__add__, inst.template.net_names))
+        if rep_raw.size == len(names):  # no two bits merged: the names are the nets' names
+            return names, {}
+        canonical = list(map(names.__getitem__, rep_raw.tolist()))
         aliases: dict[int, list[str]] = {}
         is_rep = np.zeros(len(names), bool)
         is_rep[rep_raw] = True
@@ -199,9 +202,8 @@ class Flattener:
             t, arr = inst.template, inst.arrays
             if not t.cell_names:
                 continue
-            prefix = inst.path + "."
             cell_base = len(cell_names)
-            cell_names.extend(prefix + name for name in t.cell_names)
+            cell_names.extend(map((inst.path + ".").__add__, t.cell_names))
             cell_kinds.extend(t.cell_kinds)
             cell_module.extend([inst.path] * len(t.cell_names))
             pin_names.extend(t.pin_names)
