@@ -1,5 +1,5 @@
-"""The counting-sort ordering equals numpy's stable argsort (the reference), ties included, and the
-linear-time unique equals ``np.unique`` (the reference)."""
+"""The counting-sort ordering equals numpy's stable argsort (the reference), ties included, the
+linear-time unique equals ``np.unique`` and the code lookup ``np.isin`` (the references)."""
 
 from __future__ import annotations
 
@@ -7,7 +7,7 @@ import numpy as np
 from hypothesis import given
 from hypothesis import strategies as st
 
-from linter.stable_order import dense_unique, stable_order
+from linter.stable_order import code_in, dense_unique, stable_order
 
 
 @given(st.lists(st.integers(min_value=0, max_value=40), max_size=300), st.integers(min_value=0, max_value=5))
@@ -32,3 +32,20 @@ def test_dense_unique_equals_numpys_unique(keys: list[int], scale: int) -> None:
         expected_distinct, expected_inverse = np.unique(array, return_inverse=True)
         assert distinct.tolist() == expected_distinct.tolist()
         assert inverse.dtype == np.int64 and inverse.tolist() == expected_inverse.reshape(-1).tolist()
+
+
+@given(st.lists(st.integers(min_value=0, max_value=2**40), max_size=300), st.integers(min_value=1, max_value=2**40))
+def test_dense_unique_with_first_rows_equals_numpys_unique(keys: list[int], scale: int) -> None:
+    for array in (np.asarray(keys, np.int64), np.asarray(keys, np.int64) % min(scale, 50)):
+        distinct, first, inverse = dense_unique(array, return_index=True)
+        expected_distinct, expected_first, expected_inverse = np.unique(array, return_index=True, return_inverse=True)
+        assert distinct.tolist() == expected_distinct.tolist()
+        assert first.tolist() == expected_first.tolist()
+        assert inverse.tolist() == expected_inverse.reshape(-1).tolist()
+
+
+@given(st.lists(st.integers(min_value=-128, max_value=127), max_size=300),
+       st.lists(st.integers(min_value=-128, max_value=127), max_size=6))
+def test_code_in_equals_numpys_isin(codes: list[int], allowed: list[int]) -> None:
+    array = np.asarray(codes, np.int8)
+    assert code_in(array, tuple(allowed)).tolist() == np.isin(array, allowed).tolist()

@@ -20,6 +20,7 @@ from linter.electrical.power import PowerState
 from linter.electrical.rail import Rail
 from linter.errors import SourceLocation
 from linter.netlist.graph import CellClass, DesignGraph, PinDirection
+from linter.stable_order import code_in
 
 _TRI_STATE_GATES = frozenset(["bufif0", "bufif1", "notif0", "notif1", "nmos", "pmos", "rnmos", "rpmos", "cmos", "rcmos"])
 # A bidirectional switch only joins two nets; counting its terminals as drivers would report a
@@ -103,8 +104,8 @@ def annotate(graph: DesignGraph, design: Design) -> Annotation:
     pin_family = np.repeat(cell_family, counts)
     pin_rail = np.repeat(cell_rail, counts)
     pin_kind = _BASE_KIND[graph.pin_direction]
-    drives = np.isin(graph.pin_direction, (PinDirection.OUT, PinDirection.INOUT, PinDirection.UNKNOWN))
-    receives = np.isin(graph.pin_direction, (PinDirection.IN, PinDirection.INOUT))
+    drives = code_in(graph.pin_direction, (PinDirection.OUT, PinDirection.INOUT, PinDirection.UNKNOWN))
+    receives = code_in(graph.pin_direction, (PinDirection.IN, PinDirection.INOUT))
     cell_sequential = graph.cell_class == CellClass.SEQUENTIAL
     pulls: dict[int, list[PullSource]] = {}
 

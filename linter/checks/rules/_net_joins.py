@@ -24,7 +24,7 @@ from linter.electrical.family import LogicFamily
 from linter.electrical.margins import dc_load
 from linter.electrical.rail import Rail
 from linter.errors import SourceLocation
-from linter.stable_order import stable_order
+from linter.stable_order import code_in, stable_order
 
 # Drivers whose level the electrical rules judge. Constant ties and pulls are no outputs; a pin
 # of unknown direction may not drive at all.
@@ -164,8 +164,8 @@ def _compute(context: CheckContext) -> NetJoins:
     connected_driver = ep.drives & (ep.net >= 0)
     return NetJoins(family_source, family_sink, load_receiver, net_source, net_sink, pull_ups,
                     pull_up_rail, pull_up_ohm,
-                    high_driver=connected_driver & np.isin(ep.drive_kind, HIGH_DRIVE_KINDS),
-                    judged_driver=connected_driver & np.isin(ep.drive_kind, JUDGED_DRIVE_KINDS))
+                    high_driver=connected_driver & code_in(ep.drive_kind, HIGH_DRIVE_KINDS),
+                    judged_driver=connected_driver & code_in(ep.drive_kind, JUDGED_DRIVE_KINDS))
 
 
 def _summarize_pull_ups(sources, rail_index: dict[str, int], rails) -> PullUpSummary | None:

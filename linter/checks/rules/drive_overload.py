@@ -22,6 +22,7 @@ from linter.checks.rules._net_joins import (
 )
 from linter.electrical.family import CURRENT_SLACK
 from linter.electrical.margins import DcLoad, LoadingResult, check_loading
+from linter.stable_order import code_in
 
 RULE_ID = "drive-overload"
 
@@ -56,7 +57,7 @@ def drive_overload(context: CheckContext) -> Iterator[Finding]:
     """
     ep = context.endpoints
     joins = net_joins(context)
-    drivers = np.flatnonzero(ep.drives & np.isin(ep.drive_kind, JUDGED_DRIVE_KINDS) & (ep.net >= 0) & (ep.family >= 0))
+    drivers = np.flatnonzero(ep.drives & code_in(ep.drive_kind, JUDGED_DRIVE_KINDS) & (ep.net >= 0) & (ep.family >= 0))
     if drivers.size == 0:
         return
     families = family_table(context)

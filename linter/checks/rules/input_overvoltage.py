@@ -22,6 +22,7 @@ from linter.checks.rules._net_joins import (
 from linter.electrical.family import LogicFamily, round_volts
 from linter.electrical.margins import Corner, corner_pairs
 from linter.electrical.rail import Rail
+from linter.stable_order import dense_unique
 
 RULE_ID = "input-overvoltage"
 
@@ -82,7 +83,7 @@ def input_overvoltage(context: CheckContext) -> Iterator[Finding]:
     source_rail = np.concatenate((ep.rail[driving], np.array([r for _, r in pulled], np.int64))).astype(np.int64)
     if source_net.size == 0:
         return
-    unique_sources = np.unique(combine_keys(source_net, source_rail), return_index=True)[1]
+    unique_sources = dense_unique(combine_keys(source_net, source_rail), return_index=True)[1]
     source_net, source_rail = source_net[unique_sources], source_rail[unique_sources]
     receivers = np.flatnonzero(ep.receives & (ep.net >= 0) & (ep.family >= 0) & (ep.rail >= 0))
     left, right = pairs_on_same_net(source_net, ep.net[receivers], context.graph.net_count)
@@ -91,7 +92,7 @@ def input_overvoltage(context: CheckContext) -> Iterator[Finding]:
     pair_receiver = receivers[right]
     pair_rail = source_rail[left]
     situation_key = combine_keys(pair_rail, ep.family[pair_receiver], ep.rail[pair_receiver])
-    _, first, situation = np.unique(situation_key, return_index=True, return_inverse=True)
+    _, first, situation = dense_unique(situation_key, return_index=True)
     families, rails = family_table(context), rail_table(context)
     results = [worst_input_excess(rails[int(pair_rail[p])], families[int(ep.family[pair_receiver[p]])],
                                   rails[int(ep.rail[pair_receiver[p]])]) for p in first.tolist()]

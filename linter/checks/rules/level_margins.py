@@ -34,6 +34,7 @@ from linter.checks.rules._net_joins import (
     rail_table,
 )
 from linter.electrical.margins import DcLoad, PairMargins, pair_margins
+from linter.stable_order import code_in, dense_unique
 
 LOW_RULE = "low-level-margin"
 HIGH_RULE = "high-level-margin"
@@ -69,7 +70,7 @@ def crossings(context: CheckContext) -> Crossings:
 def _compute_crossings(context: CheckContext) -> Crossings:
     ep = context.endpoints
     joins = net_joins(context)
-    drivers = np.flatnonzero(ep.drives & np.isin(ep.drive_kind, JUDGED_DRIVE_KINDS) & (ep.net >= 0) & (ep.family >= 0))
+    drivers = np.flatnonzero(ep.drives & code_in(ep.drive_kind, JUDGED_DRIVE_KINDS) & (ep.net >= 0) & (ep.family >= 0))
     nets = ep.net[drivers]
     open_drain = ep.drive_kind[drivers] == DriveKind.OPEN_DRAIN
     pulled = open_drain & (joins.pull_up_rail[nets] >= 0)
@@ -82,7 +83,7 @@ def _compute_crossings(context: CheckContext) -> Crossings:
     _, source_id = np.unique(source_pa, return_inverse=True)
     _, sink_id = np.unique(sink_pa, return_inverse=True)
     driver_key = combine_keys(ep.family[drivers], rail, ohm_id, source_id, sink_id, pulled)
-    _, driver_situation = np.unique(driver_key, return_inverse=True)
+    _, driver_situation = dense_unique(driver_key)
 
     receivers = np.flatnonzero(ep.receives & (ep.net >= 0) & (ep.family >= 0) & (ep.rail >= 0))
     left, right = pairs_on_same_net(nets, ep.net[receivers], context.graph.net_count)
@@ -90,7 +91,7 @@ def _compute_crossings(context: CheckContext) -> Crossings:
     left, right = left[distinct], right[distinct]
     pair_receiver = receivers[right]
     pair_key = combine_keys(driver_situation[left], ep.family[pair_receiver], ep.rail[pair_receiver])
-    _, first, situation = np.unique(pair_key, return_index=True, return_inverse=True)
+    _, first, situation = dense_unique(pair_key, return_index=True)
 
     families, rails = family_table(context), rail_table(context)
     margins = []
