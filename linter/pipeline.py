@@ -7,7 +7,7 @@ ones after it.
 from __future__ import annotations
 
 import argparse
-from collections.abc import Iterable, Mapping
+from collections.abc import Callable, Iterable, Mapping
 from typing import TYPE_CHECKING
 
 from linter.errors import UsageError
@@ -41,7 +41,8 @@ def load_check_design(args: argparse.Namespace) -> Design:
     return bare_design(verilog, args.top, args.include_dirs, args.defines, args.family, args.rail, args.family_dir)
 
 
-def start_netlist(design: Design, progress: bool = False) -> PendingDesign:
+def start_netlist(design: Design, progress: bool = False,
+                  while_waiting: Callable[[], object] | None = None) -> PendingDesign:
     """The design's netlist, while slang may still be checking it: see :class:`PendingDesign`."""
     from linter.netlist import start_design
     from linter.netlist.progress import Progress
@@ -51,7 +52,16 @@ def start_netlist(design: Design, progress: bool = False) -> PendingDesign:
     with Progress(enabled=progress) as bar:
         return start_design(spec.files, spec.top or None, spec.include_dirs,
                             [n if v is None else f"{n}={v}" for n, v in spec.defines],
-                            leaf_modules=leaf_modules, progress=bar)
+                            leaf_modules=leaf_modules, progress=bar, while_waiting=while_waiting)
+
+
+def _load_check_stages() -> None:
+    """Import the annotation and every rule (scipy among them) ahead of their use: the front end
+    calls this while it waits for its read-ahead child, a wait of up to a second on a big design."""
+    import linter.annotate  # noqa: F401
+    from linter.checks.engine import all_rules
+
+    all_rules()
 
 
 def read_netlist(design: Design, progress: bool = False) -> DesignGraph:
@@ -84,7 +94,7 @@ def check_design(design: Design, rules: Iterable[str] | None = None,
 
     # annotation and rules run while slang's diagnostics pass may still be running on a big
     # design; leaving the block waits for it, and its first error wins over any result
-    pending = start_netlist(design, progress)
+    pending = start_netlist(design, progress, while_waiting=_load_check_stages)
     with pending as graph:
         annotation = annotate(graph, design)
         # while slang's child holds the second core, a child for rules would only take turns with it

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import gc
-from collections.abc import Collection, Mapping, Sequence
+from collections.abc import Callable, Collection, Mapping, Sequence
 from contextlib import nullcontext
 from pathlib import Path
 from typing import TYPE_CHECKING
@@ -82,15 +82,19 @@ def start_design(
     defines: Mapping[str, str] | Sequence[str] = (),
     leaf_modules: Collection[str] = (),
     progress: Progress | None = None,
+    while_waiting: Callable[[], object] | None = None,
 ) -> PendingDesign:
     """:func:`build_design`, returning before slang's diagnostics pass (run in a child on a big
-    design) has finished, so that analysis can overlap it. See :class:`PendingDesign`."""
+    design) has finished, so that analysis can overlap it. See :class:`PendingDesign`.
+
+    ``while_waiting``, if given, is called once if the front end would otherwise sit waiting for
+    its read-ahead child: the caller's own preparation, which must not touch the design."""
     # Extraction allocates millions of small objects and frees none of them; the cyclic garbage
     # collector would walk them all again and again (a quarter of the time at a million cells).
     collecting = gc.isenabled()
     gc.disable()
     try:
-        return _start(files, top, include_dirs, defines, leaf_modules, progress)
+        return _start(files, top, include_dirs, defines, leaf_modules, progress, while_waiting)
     finally:
         if collecting:
             gc.enable()
@@ -98,13 +102,14 @@ def start_design(
 
 def _start(files: Sequence[str | Path], top: str | None, include_dirs: Sequence[str | Path],
            defines: Mapping[str, str] | Sequence[str], leaf_modules: Collection[str],
-           progress: Progress | None) -> PendingDesign:
+           progress: Progress | None, while_waiting: Callable[[], object] | None) -> PendingDesign:
     phase = progress.phase if progress is not None else (lambda name, total=None: nullcontext(None))
     # on big files a child reads the gate listings while slang parses
     prefetch = start_prefetch(files)
     try:
         with phase("parsing and elaborating"):
-            source = elaborate(files, top, include_dirs, defines, background=None, listings=prefetch)
+            source = elaborate(files, top, include_dirs, defines, background=None, listings=prefetch,
+                               while_waiting=while_waiting)
         try:
             # imported after the parse: on a big design, slang's diagnostics child (forked at
             # the parse's end) is the longest path, and these imports would only delay it

@@ -52,6 +52,10 @@ class ListingPrefetch:
         self._found: dict[_Key, GateListing | None] | None = None
         self._text_keys: dict[int, tuple[int, int]] = {}  # buffer id -> (length, CRC-32)
 
+    def busy(self) -> bool:
+        """Whether the child is still reading (so that a wait now would block)."""
+        return self._found is None and self._call.busy()
+
     def wait(self) -> bool:
         """Wait for the child; whether it read any listing."""
         if self._found is None:

@@ -8,7 +8,7 @@ error-severity diagnostic (syntax error, missing include, unknown top) stops the
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
 from functools import partial
 from pathlib import Path
@@ -76,13 +76,16 @@ def elaborate(
     defines: Mapping[str, str] | Sequence[str] = (),
     background: bool | None = False,
     listings: ListingPrefetch | None = None,
+    while_waiting: Callable[[], object] | None = None,
 ) -> ElaboratedSource:
     """Parse ``files`` into one compilation and elaborate it with ``top`` (auto-detected if None).
 
     With ``background`` False slang's full diagnostics pass runs before this returns and its first
     error is raised here; True runs it in a child process; None chooses by the size of the files.
     In a child, with gate listings read ahead (``listings``), the pass leaves out the gates it
-    can have nothing to say about (:mod:`linter.netlist.blanked_pass`).
+    can have nothing to say about (:mod:`linter.netlist.blanked_pass`). ``while_waiting`` is
+    called if the listings are not read yet when they are needed: work of the caller's that
+    fills the wait (loading later stages' code, say), never anything the result depends on.
     """
     if not files:
         raise InputError("no Verilog files given")
@@ -108,6 +111,8 @@ def elaborate(
         # (0.6 s at a million gates), which leaves that much more of the second core free
         root = compilation.getRoot()
     child_pass = None
+    if background and listings is not None and while_waiting is not None and listings.busy():
+        while_waiting()
     if background and listings is not None and listings.wait():
         from linter.netlist.blanked_pass import blanked_pass
 

@@ -196,3 +196,22 @@ def test_a_big_design_gets_the_blanked_pass_in_its_child(tmp_path: Path, monkeyp
         f"{path}:14:8: warning: implicit net 'r' created [implicit-net]",
     ]
     assert graph_differences(graph, in_process) == []
+
+
+def test_the_caller_fills_the_wait_for_the_listings_and_nothing_changes(tmp_path: Path,
+                                                                        monkeypatch: pytest.MonkeyPatch) -> None:
+    path = _cell(tmp_path, SLANG_SAYS_NOTHING["two gates"] + "\n  buf (w, zz);")
+    alone = build_design([path])
+    monkeypatch.setattr(source, "BACKGROUND_FROM_BYTES", 0)
+    monkeypatch.setattr(listing_prefetch, "PREFETCH_FROM_BYTES", 0)
+    monkeypatch.setattr(ListingPrefetch, "busy", lambda self: True)  # a child still reading
+    calls = []
+    with start_design([path], while_waiting=lambda: calls.append("filled")) as graph:
+        pass
+    assert calls == ["filled"]
+    assert graph.diagnostics == alone.diagnostics == [f"{path}:10:11: warning: implicit net 'zz' created [implicit-net]"]
+    assert graph_differences(graph, alone) == []
+    monkeypatch.setattr(ListingPrefetch, "busy", lambda self: False)  # the listings already there
+    with start_design([path], while_waiting=lambda: calls.append("filled")):
+        pass
+    assert calls == ["filled"]
