@@ -56,9 +56,10 @@ def blanked_pass(compilation: ast.Compilation, source_manager: pyslang.SourceMan
         if text is None or readings[str(source_manager.getFullPath(sample.buffer))] > 1:
             blanked.addSyntaxTree(syntax.SyntaxTree.fromFile(path, blanked_manager, bag))
             continue
-        copy = syntax.SyntaxTree.fromText(text, blanked_manager, Path(path).name, path, bag)
+        copy = syntax.SyntaxTree.fromFileInMemory(text, blanked_manager, Path(path).name, path, bag)
         blanked.addSyntaxTree(copy)
-        file_names[copy.root.sourceRange.start.buffer.id] = source_manager.getFileName(sample)
+        # the copy's own buffer (not an included one's) is named as slang names the file
+        file_names[_own_buffer(copy, blanked_manager)] = source_manager.getFileName(sample)
     if not file_names:
         return collect(compilation, source_manager)
     blanked.getRoot()
@@ -72,11 +73,7 @@ def blanked_text(tree: syntax.SyntaxTree, source_manager: pyslang.SourceManager,
     None if no statement of it is left out."""
     starts, ends = [], []
     sample = text = None
-    for member in tree.root.members:
-        span = body_span(member, source_manager)
-        if span is None or source_manager.isIncludedFileLoc(span[0]):
-            continue
-        start, end = span
+    for (start, end), member in _own_bodies(tree, source_manager):
         if sample is None:
             sample = start
             text = source_manager.getSourceText(start.buffer).encode("utf-8")
@@ -100,3 +97,25 @@ def blanked_text(tree: syntax.SyntaxTree, source_manager: pyslang.SourceManager,
     inside &= (content != _LINE_FEED) & (content != _CARRIAGE_RETURN)
     content[inside] = _SPACE
     return content.tobytes().decode("utf-8"), sample
+
+
+def _own_bodies(tree: syntax.SyntaxTree, source_manager: pyslang.SourceManager) -> list:
+    """``((start, end), declaration)`` of each module of ``tree`` whose body is plain text of the
+    tree's own file (not of a file it includes, not from a macro)."""
+    found = []
+    for member in tree.root.members:
+        span = body_span(member, source_manager)
+        if span is not None and not source_manager.isIncludedFileLoc(span[0]):
+            found.append((span, member))
+    return found
+
+
+def _own_buffer(copy: syntax.SyntaxTree, source_manager: pyslang.SourceManager) -> int:
+    """The id of the buffer holding the copied text itself (its first module's header is there,
+    not in an included file or a macro: the copy has the original's blanked bodies)."""
+    for member in copy.root.members:
+        if member.kind == syntax.SyntaxKind.ModuleDeclaration:
+            where = member.header.sourceRange.end
+            if not source_manager.isMacroLoc(where) and not source_manager.isIncludedFileLoc(where):
+                return where.buffer.id
+    raise AssertionError("a blanked copy holds the module it was blanked for")

@@ -62,9 +62,9 @@ def _outcomes(paths: list[Path], top: str | None = None) -> tuple[object, object
     bag = source.slang_options(top)
     blanked = 0
     for tree in trees:
-        text, _ = blanked_text(tree, manager, listings)
+        text, sample = blanked_text(tree, manager, listings)
         if text is not None:
-            original = manager.getSourceText(tree.root.sourceRange.start.buffer).rstrip("\0")
+            original = manager.getSourceText(sample.buffer).rstrip("\0")
             assert len(text) == len(original)
             assert [i for i, c in enumerate(text) if c == "\n"] == [i for i, c in enumerate(original) if c == "\n"]
             blanked += sum(1 for mine, theirs in zip(text, original) if mine != theirs)
@@ -156,6 +156,15 @@ def test_a_file_also_included_is_left_whole(tmp_path: Path) -> None:
     full, blanked, _ = _outcomes([tmp_path / "top.v", tmp_path / "leaf.v"], "top")
     assert full.error is None  # slang 12.1.0: a warning, at the second reading (observed)
     assert full.warnings == [f"{tmp_path / 'leaf.v'}:2:8: warning: duplicate definition of 'leaf' [duplicate-definition]"]
+    assert blanked == full
+
+
+def test_a_file_that_starts_with_an_include_keeps_the_included_files_name(tmp_path: Path) -> None:
+    (tmp_path / "defs.vh").write_text("// invented\nmodule helper (a);\n  input a;\n  wire w;\n  buf (w, zz);\nendmodule\n")
+    (tmp_path / "top.v").write_text('`include "defs.vh"\n// invented\n' + HEADER + "  and g (y, a, b);\nendmodule\n")
+    full, blanked, characters = _outcomes([tmp_path / "top.v"], "unit_a")
+    assert characters > 0
+    assert full.warnings == [f"{tmp_path / 'defs.vh'}:5:11: warning: implicit net 'zz' created [implicit-net]"]
     assert blanked == full
 
 
