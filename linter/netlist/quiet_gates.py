@@ -15,11 +15,14 @@ pinned by a test that asks slang itself, ``tests/netlist/test_blanked_pass.py``)
 - ``implicit-net`` (or ``UndeclaredIdentifier`` under ```default_nettype none``), ``index-oob``,
   ``cannot-index-scalar``, ``port-width-trunc``: a term that is not one declared bit.
 
-So a body is quiet when every instance name is new, every gate has two terminals or more, no
-output terminal is a constant, and every term is a declared one-bit wire or port, a bit of a
-declared vector within its range, or a one-bit constant. The screen is conservative: anything it
-cannot prove (a name declared twice with different shapes, a port list it cannot read) fails it,
-and the body is then left to slang's own pass.
+- ``UsedBeforeDeclared``: a term whose wire or port is declared after the gate.
+
+So a body is quiet when every port and wire is declared before its first gate, every instance
+name is new, every gate has two terminals or more, no output terminal is a constant, and every
+term is a declared one-bit wire or port, a bit of a declared vector within its range, or a
+one-bit constant. The screen is conservative: anything it cannot prove (a name declared twice
+with different shapes, a port list it cannot read) fails it, and the body is then left to
+slang's own pass.
 """
 
 from __future__ import annotations
@@ -45,6 +48,8 @@ def gates_are_quiet(listing: GateListing, header_ports: NetDeclaration | None) -
     """
     if header_ports is None or listing.ports is None:
         return False
+    if not _declared_first(listing):
+        return False
     counts = np.frombuffer(listing.term_counts, np.int32)
     if counts.size and int(counts.min()) < 2:
         return False
@@ -55,6 +60,16 @@ def gates_are_quiet(listing: GateListing, header_ports: NetDeclaration | None) -
     if not _instance_names_new(listing, one_bit_wires, shaped):
         return False
     return _terms_declared(listing, counts, one_bit_wires, shaped)
+
+
+def _declared_first(listing: GateListing) -> bool:
+    """Whether every port and wire is declared before the first gate statement (slang: "used
+    before its declaration", an error, for a term declared later; the screen asks no more)."""
+    if not listing.statement_starts:
+        return True
+    declarations = [*listing.nets, *(port.names for port in listing.ports or ())]
+    last = max((max(declaration.offsets) for declaration in declarations if declaration.offsets), default=-1)
+    return last < listing.statement_starts[0]
 
 
 def _plain(token: bytes) -> bytes:

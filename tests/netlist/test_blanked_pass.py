@@ -48,6 +48,7 @@ SLANG_SAYS = {
     "a bit out of range": ("  and g (y, v[2], b);", "cannot refer to element 2 of 'logic[1:0]'"),
     "an undeclared name": ("  and g (y, a, zz);", "implicit net 'zz' created"),
     "a bit of a scalar": ("  and g (y, a[0], b);", "scalar type cannot be indexed"),
+    "a wire declared after its use": ("  and g (y, a, late);\n  wire late;", "identifier 'late' used before its declaration"),
 }
 
 
