@@ -68,7 +68,8 @@ def _declared_first(listing: GateListing) -> bool:
     if not listing.statement_starts:
         return True
     declarations = [*listing.nets, *(port.names for port in listing.ports or ())]
-    last = max((max(declaration.offsets) for declaration in declarations if declaration.offsets), default=-1)
+    # a statement's names are in source order, so its last name is where it ends
+    last = max((declaration.offsets[-1] for declaration in declarations if declaration.offsets), default=-1)
     return last < listing.statement_starts[0]
 
 
@@ -116,8 +117,7 @@ def _declared_names(listing: GateListing, header_ports: NetDeclaration) -> tuple
 
 
 def _instance_names_new(listing: GateListing, one_bit_wires: set[bytes], shaped: dict[bytes, _Shape]) -> bool:
-    named = [name for name in listing.gate_names if name is not None] if None in listing.gate_names \
-        else listing.gate_names
+    named = [name for name in listing.gate_names if name is not None]  # anonymous gates name nothing
     if listing.escaped_names:
         named = [_plain(name) for name in named]
     names = set(named)

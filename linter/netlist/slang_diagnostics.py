@@ -42,7 +42,7 @@ class DiagnosticOutcome:
 
 
 @dataclass(frozen=True)
-class _Said:
+class SaidDiagnostic:
     """One diagnostic, read: where, how severe, and its text."""
 
     where: SourceLocation
@@ -56,7 +56,7 @@ def collect(compilation: ast.Compilation, source_manager: pyslang.SourceManager)
 
 
 def read_diagnostics(diagnostics: Iterable[pyslang.Diagnostic], source_manager: pyslang.SourceManager,
-                     file_names: Mapping[int, str] | None = None) -> list[_Said]:
+                     file_names: Mapping[int, str] | None = None) -> list[SaidDiagnostic]:
     """slang's diagnostics in our words; ``file_names`` renames the files of some buffers (by id)."""
     engine = pyslang.DiagnosticEngine(source_manager)
     said = []
@@ -73,19 +73,19 @@ def read_diagnostics(diagnostics: Iterable[pyslang.Diagnostic], source_manager: 
             elif code == "ExceededMaxIncludeDepth":
                 # slang stops a file that includes itself only at its depth limit; say why
                 message += " (does a file `include itself, directly or through others?)"
-            said.append(_Said(where, True, message))
+            said.append(SaidDiagnostic(where, True, message))
         elif severity == pyslang.DiagnosticSeverity.Warning:
             option = engine.getOptionName(diagnostic.code) or str(diagnostic.code)[9:-1]
             if option not in _QUIET_WARNINGS:
-                said.append(_Said(where, False, f"{where}: warning: {message} [{option}]"))
+                said.append(SaidDiagnostic(where, False, f"{where}: warning: {message} [{option}]"))
     return said
 
 
-def has_error(said: Iterable[_Said]) -> bool:
+def has_error(said: Iterable[SaidDiagnostic]) -> bool:
     return any(item.is_error for item in said)
 
 
-def outcome_of(said: Iterable[_Said]) -> DiagnosticOutcome:
+def outcome_of(said: Iterable[SaidDiagnostic]) -> DiagnosticOutcome:
     """The first error in source order, and the warnings in order, each once."""
     errors, warnings = [], set()
     for item in said:

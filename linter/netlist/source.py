@@ -111,12 +111,14 @@ def elaborate(
         # (0.6 s at a million gates), which leaves that much more of the second core free
         root = compilation.getRoot()
     child_pass = None
-    if background and listings is not None and while_waiting is not None and listings.busy():
-        while_waiting()
-    if background and listings is not None and listings.wait():
-        from linter.netlist.blanked_pass import blanked_pass
+    if background and listings is not None:
+        if while_waiting is not None and listings.busy():
+            while_waiting()
+        if listings.wait():
+            from linter.netlist.blanked_pass import blanked_pass
 
-        child_pass = partial(blanked_pass, compilation, source_manager, bag, [str(p) for p in paths], trees, listings)
+            child_pass = partial(blanked_pass, compilation, source_manager, bag, [str(p) for p in paths], trees,
+                                 listings)
     diagnostics = DiagnosticsJob(compilation, source_manager, background, child_pass)
     try:
         if not background:
