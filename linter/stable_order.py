@@ -1,25 +1,36 @@
 """Linear-time work on columns of small non-negative integer keys (net ids, cell ids, codes).
 
-``np.argsort(keys, kind="stable")`` is a merge sort, O(n log n); for keys below a known bound
-a counting sort gives the same permutation in O(n + bound). scipy's COO-to-CSR conversion is
-exactly that counting sort, written in C: entry i goes to row ``keys[i]``, column i, and each
-row keeps its entries in input order. A test holds it equal to numpy's stable argsort.
+Everything here is numpy alone: scipy takes a quarter of a second to import, more than all the
+rules of a 100k-cell check take to run, so the common path of ``check`` does without it.
 """
 
 from __future__ import annotations
 
 import numpy as np
 
+# numpy sorts integers of 16 bits or fewer stably by a radix sort, O(n); wider ones by a merge sort
+_RADIX_KEYS = 1 << 16
+
 
 def stable_order(keys: np.ndarray, key_count: int) -> np.ndarray:
-    """The permutation that sorts ``keys`` (all in ``0 .. key_count-1``) stably, as int64."""
+    """The permutation that sorts ``keys`` (all in ``0 .. key_count-1``) stably, as int64.
+
+    Few distinct keys: numpy's radix sort on 16-bit keys. Many: every key is packed with its row
+    number into one int64, which makes all keys distinct, so numpy's fast unstable sort gives the
+    stable order (about four times faster than its stable sort of the keys at three million rows)."""
     count = int(keys.shape[0])
     if count == 0:
         return np.zeros(0, np.int64)
-    from scipy.sparse import csr_matrix  # here: see linter.netlist.flatten._merge
-
-    rows = csr_matrix((np.ones(count, np.int8), (keys, np.arange(count))), shape=(key_count, count))
-    return rows.indices.astype(np.int64, copy=False)
+    if key_count <= _RADIX_KEYS:
+        return np.argsort(keys.astype(np.uint16, copy=False), kind="stable").astype(np.int64, copy=False)
+    row_bits = count.bit_length()
+    if key_count.bit_length() + row_bits > 62:
+        return np.argsort(keys, kind="stable").astype(np.int64, copy=False)
+    packed = keys.astype(np.int64) << row_bits
+    packed |= np.arange(count, dtype=np.int64)
+    packed.sort()
+    packed &= (1 << row_bits) - 1
+    return packed
 
 
 def dense_unique(keys: np.ndarray, return_index: bool = False) -> tuple[np.ndarray, ...]:

@@ -17,9 +17,24 @@ def test_equals_numpys_stable_argsort(keys: list[int], spare: int) -> None:
     assert stable_order(array, max(bound, 1)).tolist() == np.argsort(array, kind="stable").tolist()
 
 
+@given(st.lists(st.integers(min_value=0, max_value=2**20), max_size=300), st.integers(min_value=0, max_value=2**20))
+def test_many_distinct_keys_equal_numpys_stable_argsort(keys: list[int], spare: int) -> None:
+    # past 2**16 keys the order comes from packing each key with its row number
+    array = np.asarray([k % 9 * 2**17 + k for k in keys], np.int32)  # ties and keys past 2**16
+    bound = max(int(array.max()) + 1 if keys else 0, 2**16 + 1) + spare
+    assert stable_order(array, bound).tolist() == np.argsort(array, kind="stable").tolist()
+
+
 def test_a_million_keys_with_many_ties() -> None:
     keys = np.random.default_rng(7).integers(0, 1000, 1_000_000).astype(np.int64)
     order = stable_order(keys, 1000)
+    assert order.dtype == np.int64
+    assert np.array_equal(order, np.argsort(keys, kind="stable"))
+
+
+def test_three_million_rows_over_a_million_keys() -> None:
+    keys = np.random.default_rng(11).integers(0, 1_000_000, 3_000_000).astype(np.int32)
+    order = stable_order(keys, 1_000_000)
     assert order.dtype == np.int64
     assert np.array_equal(order, np.argsort(keys, kind="stable"))
 
