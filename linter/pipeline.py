@@ -8,6 +8,8 @@ from __future__ import annotations
 
 import argparse
 from collections.abc import Callable, Iterable, Mapping
+from functools import partial
+from pathlib import Path
 from typing import TYPE_CHECKING
 
 from linter.errors import UsageError
@@ -22,6 +24,11 @@ if TYPE_CHECKING:
 
 # The stages are imported where they run, not here: a command then reads its design file and
 # starts slang's parse before it loads the annotation, the rules and the reporters.
+
+# The loop rule needs scipy only from a million arcs (``cycle_through_logic.COMPONENTS_FROM_ARCS``),
+# about half a million cells or 25 MB of flat gate-level Verilog: from there ``check`` imports it
+# while it waits for its read-ahead child.
+SCIPY_AHEAD_FROM_BYTES = 25_000_000
 
 
 def load_check_design(args: argparse.Namespace) -> Design:
@@ -42,7 +49,7 @@ def load_check_design(args: argparse.Namespace) -> Design:
 
 
 def start_netlist(design: Design, progress: bool = False,
-                  while_waiting: Callable[[], object] | None = None) -> PendingDesign:
+                  while_waiting: Callable[[Callable[[], bool]], object] | None = None) -> PendingDesign:
     """The design's netlist, while slang may still be checking it: see :class:`PendingDesign`."""
     from linter.netlist import start_design
     from linter.netlist.progress import Progress
@@ -55,13 +62,26 @@ def start_netlist(design: Design, progress: bool = False,
                             leaf_modules=leaf_modules, progress=bar, while_waiting=while_waiting)
 
 
-def _load_check_stages() -> None:
-    """Import the annotation and every rule (scipy among them) ahead of their use: the front end
-    calls this while it waits for its read-ahead child, a wait of up to a second on a big design."""
+def _load_check_stages(still_waiting: Callable[[], bool], with_scipy: bool) -> None:
+    """Import the annotation and every rule ahead of their use, and scipy's graph routines if
+    ``with_scipy``: the front end calls this while it waits for its read-ahead child, a wait of
+    up to a second on a big design. Each step starts only while the child is still reading, so
+    the wait is filled but hardly stretched."""
     import linter.annotate  # noqa: F401
-    from linter.checks.engine import all_rules
 
-    all_rules()
+    if still_waiting():
+        from linter.checks.engine import all_rules
+
+        all_rules()
+    if with_scipy and still_waiting():
+        import scipy.sparse.csgraph  # noqa: F401
+
+
+def _netlist_bytes(design: Design) -> int:
+    try:
+        return sum(Path(path).stat().st_size for path in design.netlist.files)
+    except OSError:
+        return 0  # the front end reports the file
 
 
 def read_netlist(design: Design, progress: bool = False) -> DesignGraph:
@@ -85,6 +105,11 @@ def check_annotation(annotation: Annotation, rules: Iterable[str] | None = None,
 def check_design(design: Design, rules: Iterable[str] | None = None,
                  overrides: Mapping[str, Severity] | None = None, progress: bool = False) -> CheckReport:
     """The whole main job for one design: read, annotate, check, and package for the reporters."""
+    # annotation and rules run while slang's diagnostics pass may still be running on a big
+    # design; leaving the block waits for it, and its first error wins over any result
+    with_scipy = _netlist_bytes(design) >= SCIPY_AHEAD_FROM_BYTES
+    pending = start_netlist(design, progress, while_waiting=partial(_load_check_stages, with_scipy=with_scipy))
+    # imported after the parse started: on a big design they are in already, loaded in the wait
     from linter import __version__
     from linter.annotate import annotate
     from linter.checks.engine import run_checks
@@ -92,9 +117,6 @@ def check_design(design: Design, rules: Iterable[str] | None = None,
     from linter.cli import CAUTION
     from linter.report.model import CheckReport
 
-    # annotation and rules run while slang's diagnostics pass may still be running on a big
-    # design; leaving the block waits for it, and its first error wins over any result
-    pending = start_netlist(design, progress, while_waiting=_load_check_stages)
     with pending as graph:
         annotation = annotate(graph, design)
         # while slang's child holds the second core, a child for rules would only take turns with it

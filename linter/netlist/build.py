@@ -82,13 +82,14 @@ def start_design(
     defines: Mapping[str, str] | Sequence[str] = (),
     leaf_modules: Collection[str] = (),
     progress: Progress | None = None,
-    while_waiting: Callable[[], object] | None = None,
+    while_waiting: Callable[[Callable[[], bool]], object] | None = None,
 ) -> PendingDesign:
     """:func:`build_design`, returning before slang's diagnostics pass (run in a child on a big
     design) has finished, so that analysis can overlap it. See :class:`PendingDesign`.
 
     ``while_waiting``, if given, is called once if the front end would otherwise sit waiting for
-    its read-ahead child: the caller's own preparation, which must not touch the design."""
+    its read-ahead child: the caller's own preparation, which must not touch the design. It gets
+    a predicate telling whether the child is still reading."""
     # Extraction allocates millions of small objects and frees none of them; the cyclic garbage
     # collector would walk them all again and again (a quarter of the time at a million cells).
     collecting = gc.isenabled()
@@ -102,7 +103,8 @@ def start_design(
 
 def _start(files: Sequence[str | Path], top: str | None, include_dirs: Sequence[str | Path],
            defines: Mapping[str, str] | Sequence[str], leaf_modules: Collection[str],
-           progress: Progress | None, while_waiting: Callable[[], object] | None) -> PendingDesign:
+           progress: Progress | None,
+           while_waiting: Callable[[Callable[[], bool]], object] | None) -> PendingDesign:
     phase = progress.phase if progress is not None else (lambda name, total=None: nullcontext(None))
     # on big files a child reads the gate listings while slang parses
     prefetch = start_prefetch(files)

@@ -76,7 +76,7 @@ def elaborate(
     defines: Mapping[str, str] | Sequence[str] = (),
     background: bool | None = False,
     listings: ListingPrefetch | None = None,
-    while_waiting: Callable[[], object] | None = None,
+    while_waiting: Callable[[Callable[[], bool]], object] | None = None,
 ) -> ElaboratedSource:
     """Parse ``files`` into one compilation and elaborate it with ``top`` (auto-detected if None).
 
@@ -85,7 +85,8 @@ def elaborate(
     In a child, with gate listings read ahead (``listings``), the pass leaves out the gates it
     can have nothing to say about (:mod:`linter.netlist.blanked_pass`). ``while_waiting`` is
     called if the listings are not read yet when they are needed: work of the caller's that
-    fills the wait (loading later stages' code, say), never anything the result depends on.
+    fills the wait (loading later stages' code, say), never anything the result depends on. It
+    is given a predicate telling whether the child is still reading, so that it can stop early.
     """
     if not files:
         raise InputError("no Verilog files given")
@@ -113,7 +114,7 @@ def elaborate(
     child_pass = None
     if background and listings is not None:
         if while_waiting is not None and listings.busy():
-            while_waiting()
+            while_waiting(listings.busy)
         if listings.wait():
             from linter.netlist.blanked_pass import blanked_pass
 

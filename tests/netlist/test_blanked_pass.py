@@ -217,15 +217,15 @@ def test_the_caller_fills_the_wait_for_the_listings_and_nothing_changes(tmp_path
     monkeypatch.setattr(listing_prefetch, "PREFETCH_FROM_BYTES", 0)
     monkeypatch.setattr(ListingPrefetch, "busy", lambda self: True)  # a child still reading
     calls = []
-    with start_design([path], while_waiting=lambda: calls.append("filled")) as graph:
+    with start_design([path], while_waiting=lambda busy: calls.append(busy())) as graph:
         pass
-    assert calls == ["filled"]
+    assert calls == [True]  # and the caller is told the child still reads
     assert graph.diagnostics == alone.diagnostics == [f"{path}:10:11: warning: implicit net 'zz' created [implicit-net]"]
     assert graph_differences(graph, alone) == []
     monkeypatch.setattr(ListingPrefetch, "busy", lambda self: False)  # the listings already there
-    with start_design([path], while_waiting=lambda: calls.append("filled")):
+    with start_design([path], while_waiting=lambda busy: calls.append(busy())):
         pass
-    assert calls == ["filled"]
+    assert calls == [True]
 
 
 def test_random_bodies_get_the_outcome_of_the_full_pass(tmp_path: Path) -> None:
