@@ -34,18 +34,20 @@ def register(subparsers: argparse._SubParsersAction) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    from linter.collector import collector_paused
     from linter.pipeline import check_design, load_check_design
 
     design = load_check_design(args)
-    report = check_design(design, args.rules, _overrides(args.severity), progress=_show_progress(args))
-    text = _render(report, args.format, color=args.output is None and sys.stdout.isatty())
-    if args.output:
-        from linter.output import write_atomic
+    with collector_paused():  # findings and their report lines are objects by the hundred thousand
+        report = check_design(design, args.rules, _overrides(args.severity), progress=_show_progress(args))
+        text = _render(report, args.format, color=args.output is None and sys.stdout.isatty())
+        if args.output:
+            from linter.output import write_atomic
 
-        write_atomic(args.output, text)
-    else:
-        sys.stdout.write(text)
-    return EXIT_FINDINGS if report.summary.errors else EXIT_CLEAN
+            write_atomic(args.output, text)
+        else:
+            sys.stdout.write(text)
+        return EXIT_FINDINGS if report.summary.errors else EXIT_CLEAN
 
 
 def _show_progress(args: argparse.Namespace) -> bool:
