@@ -1,7 +1,7 @@
 """The check results as JSON for other programs: schema ``levelcross-check/1``.
 
-Every field of every finding is written, locations as ``{"file", "line", "column"}``. Findings
-keep the engine's order, keys are sorted, and rails, power states and coverage are mappings, so
+Every field of every finding is written, locations as ``{"file", "line", "column"}``, one
+finding per line. Findings keep the engine's order, keys are sorted, and rails, power states and coverage are mappings, so
 the same report always gives byte-identical text. :func:`read_findings` reads the findings back,
 so a saved result can be compared with a later run.
 
@@ -30,8 +30,9 @@ SCHEMA = "levelcross-check/1"
 
 
 def render_json(report: CheckReport) -> str:
-    """The report as deterministic JSON text (two-space indent, sorted keys, final newline)."""
-    return to_json(report_document(report))
+    """The report as deterministic JSON text (two-space indent, sorted keys, final newline), each
+    finding on a line of its own."""
+    return to_json(report_document(report), records=("findings", "waived"))
 
 
 def report_document(report: CheckReport) -> dict[str, Any]:

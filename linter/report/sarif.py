@@ -26,8 +26,9 @@ SARIF_VERSION = "2.1.0"
 
 
 def render_sarif(report: CheckReport) -> str:
-    """The report as SARIF JSON text, deterministic like every JSON output of levelcross."""
-    return to_json(sarif_log(report))
+    """The report as SARIF JSON text, deterministic like every JSON output of levelcross, each
+    result and each rule on a line of its own."""
+    return to_json(sarif_log(report), records=("results", "rules"))
 
 
 def sarif_log(report: CheckReport) -> dict[str, Any]:
