@@ -109,6 +109,10 @@ def _constant_int(expression: ast.Expression) -> int:
     return int(constant.value if hasattr(constant, "value") else constant)
 
 
+def _no_symbol_bits(symbol: ast.Symbol) -> SymbolBits | None:
+    raise RuntimeError("this resolver was told to forget its symbols")
+
+
 class BitResolver:
     """Maps expressions of one module body to its local bits.
 
@@ -118,6 +122,11 @@ class BitResolver:
 
     def __init__(self, symbol_bits: Callable[[ast.Symbol], SymbolBits | None]) -> None:
         self._symbol_bits = symbol_bits
+
+    def forget_symbols(self) -> None:
+        """Drop ``symbol_bits`` (often a bound method of the resolver's owner, so a reference
+        cycle); the resolver resolves nothing afterwards."""
+        self._symbol_bits = _no_symbol_bits
 
     # ---- bits named by an expression (None: the expression computes something) ------------------
     def bits(self, expression: ast.Expression) -> list[int] | None:

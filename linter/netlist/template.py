@@ -139,6 +139,16 @@ class TemplateBuilder(InstanceCells, ProcessCells, ListedGateCells):
 
     # ---- the walk ------------------------------------------------------------------------------
     def build(self) -> Template:
+        """The template of the body; the builder is spent afterwards."""
+        try:
+            return self._build()
+        finally:
+            # the resolver calls back into this builder; cut that cycle, or the builder and
+            # what it holds (the listings, the source texts: 300 MB at a million cells) would
+            # outlive it until the cyclic collector happened to run
+            self.resolver.forget_symbols()
+
+    def _build(self) -> Template:
         found = self._gate_listing()
         if found is not None:
             ports_from_text = self._listed_ports(*found)
