@@ -91,7 +91,11 @@ def _apply_waivers(annotation: Annotation, findings: list[Finding]) -> tuple[lis
     active: list[Finding] = []
     waived: list[Finding] = []
     used: set[int] = set()
+    waived_rules = {waiver.rule for waiver in annotation.design.waivers}
     for finding in findings:
+        if finding.rule not in waived_rules:  # most findings: no waiver names their rule
+            active.append(finding)
+            continue
         net = finding.subject if finding.subject_kind in ("net", "port") else None
         cell = finding.subject if finding.subject_kind == "cell" else None
         matches = list(resolver.waivers(finding.rule, net=net, cell=cell))
