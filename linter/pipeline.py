@@ -9,10 +9,10 @@ from __future__ import annotations
 import argparse
 from collections.abc import Callable, Iterable, Mapping
 from functools import partial
-from pathlib import Path
 from typing import TYPE_CHECKING
 
 from linter.errors import UsageError
+from linter.textfile import total_bytes
 
 if TYPE_CHECKING:
     from linter.annotate import Annotation
@@ -77,13 +77,6 @@ def _load_check_stages(still_waiting: Callable[[], bool], with_scipy: bool) -> N
         import scipy.sparse.csgraph  # noqa: F401
 
 
-def _netlist_bytes(design: Design) -> int:
-    try:
-        return sum(Path(path).stat().st_size for path in design.netlist.files)
-    except OSError:
-        return 0  # the front end reports the file
-
-
 def read_netlist(design: Design, progress: bool = False) -> DesignGraph:
     return start_netlist(design, progress).finish()
 
@@ -107,7 +100,7 @@ def check_design(design: Design, rules: Iterable[str] | None = None,
     """The whole main job for one design: read, annotate, check, and package for the reporters."""
     # annotation and rules run while slang's diagnostics pass may still be running on a big
     # design; leaving the block waits for it, and its first error wins over any result
-    with_scipy = _netlist_bytes(design) >= SCIPY_AHEAD_FROM_BYTES
+    with_scipy = total_bytes(design.netlist.files) >= SCIPY_AHEAD_FROM_BYTES
     pending = start_netlist(design, progress, while_waiting=partial(_load_check_stages, with_scipy=with_scipy))
     # imported after the parse started: on a big design they are in already, loaded in the wait
     from linter import __version__

@@ -2,9 +2,19 @@
 
 from __future__ import annotations
 
+from collections.abc import Iterable
 from pathlib import Path
 
 from linter.errors import InputError, SourceLocation
+
+
+def total_bytes(paths: Iterable[str | Path]) -> int:
+    """The summed size of the files, the measure by which work is split on big inputs; 0 if one
+    cannot be read (whoever reads it reports that, with a proper message)."""
+    try:
+        return sum(Path(path).stat().st_size for path in paths)
+    except OSError:
+        return 0
 
 
 def read_text_input(path: str | Path, kind: str, empty: str | None = None, encoding: str = "utf-8") -> str:

@@ -23,6 +23,7 @@ from linter.netlist.gate_listing import (
     GateListing,
     read_gate_listing,
 )
+from linter.textfile import total_bytes
 
 # Below this much Verilog reading the listings takes less than a fork costs.
 PREFETCH_FROM_BYTES = 4_000_000
@@ -81,11 +82,7 @@ class ListingPrefetch:
 
 def start_prefetch(paths: Sequence[str | Path]) -> ListingPrefetch | None:
     """A child reading the listings of ``paths``, if they are big enough to be worth one."""
-    try:
-        size = sum(Path(path).stat().st_size for path in paths)
-    except OSError:
-        return None  # the parse reports the file
-    return ListingPrefetch(paths) if size >= PREFETCH_FROM_BYTES else None
+    return ListingPrefetch(paths) if total_bytes(paths) >= PREFETCH_FROM_BYTES else None
 
 
 def read_listings(paths: Sequence[str | Path]) -> dict[_Key, GateListing | None]:

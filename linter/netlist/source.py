@@ -22,7 +22,7 @@ from linter.netlist.slang_diagnostics import (
     BACKGROUND_FROM_BYTES,
     DiagnosticsJob,
 )
-from linter.textfile import read_text_input
+from linter.textfile import read_text_input, total_bytes
 
 if TYPE_CHECKING:
     from linter.netlist.listing_prefetch import ListingPrefetch
@@ -106,7 +106,7 @@ def elaborate(
         compilation.addSyntaxTree(tree)
 
     if background is None:
-        background = sum(path.stat().st_size for path in paths) >= BACKGROUND_FROM_BYTES
+        background = total_bytes(paths) >= BACKGROUND_FROM_BYTES
     if background:
         # forked after getRoot: the child inherits the elaborated root instead of repeating it
         # (0.6 s at a million gates), which leaves that much more of the second core free

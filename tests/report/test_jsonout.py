@@ -64,3 +64,24 @@ def test_a_small_report_shape() -> None:
         '  "waived": []\n'
         '}\n'
     )
+
+
+def test_keys_that_are_no_strings_are_written_as_the_standard_library_writes_them() -> None:
+    data = {"counts": {2: "two", 10: {"nested": [1]}}, "findings": [{"z": 1, "a": 2}]}
+    assert to_json(data, records=("findings",)) == (
+        '{\n'
+        '  "counts": {\n'
+        '    "2": "two",\n'
+        '    "10": {\n'
+        '      "nested": [\n'
+        '        1\n'
+        '      ]\n'
+        '    }\n'
+        '  },\n'
+        '  "findings": [\n'
+        '    {"a": 2, "z": 1}\n'
+        '  ]\n'
+        '}\n'
+    )
+    # the same text as the standard library gives for that part (ints sorted as numbers, 2 before 10)
+    assert to_json(data, records=("findings",)).startswith(_standard({"counts": data["counts"]})[:-3])
