@@ -98,8 +98,6 @@ def check_annotation(annotation: Annotation, rules: Iterable[str] | None = None,
 def check_design(design: Design, rules: Iterable[str] | None = None,
                  overrides: Mapping[str, Severity] | None = None, progress: bool = False) -> CheckReport:
     """The whole main job for one design: read, annotate, check, and package for the reporters."""
-    # annotation and rules run while slang's diagnostics pass may still be running on a big
-    # design; leaving the block waits for it, and its first error wins over any result
     with_scipy = total_bytes(design.netlist.files) >= SCIPY_AHEAD_FROM_BYTES
     pending = start_netlist(design, progress, while_waiting=partial(_load_check_stages, with_scipy=with_scipy))
     # imported after the parse started: on a big design they are in already, loaded in the wait
@@ -110,6 +108,8 @@ def check_design(design: Design, rules: Iterable[str] | None = None,
     from linter.cli import CAUTION
     from linter.report.model import CheckReport
 
+    # annotation and rules run while slang's diagnostics pass may still be running on a big
+    # design; leaving the block waits for it, and its first error wins over any result
     with pending as graph:
         annotation = annotate(graph, design)
         # while slang's child holds the second core, a child for rules would only take turns with it
